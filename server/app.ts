@@ -1,0 +1,99 @@
+import { existsSync } from 'node:fs'
+import { join } from 'node:path'
+import express, { type Express } from 'express'
+import helmet from 'helmet'
+import cookieParser from 'cookie-parser'
+import { pinoHttp } from 'pino-http'
+import type { Logger } from 'pino'
+import './auth/express-augment'
+import type { AppConfig } from './config'
+import type { Db } from './db/knex'
+import { authenticate } from './middleware/authenticate'
+import { errorHandler } from './middleware/error-handler'
+import { notFoundHandler } from './middleware/not-found'
+import { sameOriginWrites } from './middleware/same-origin'
+import { authRouter } from './routes/auth'
+import { healthRouter } from './routes/health'
+import { patientsRouter } from './routes/patients'
+import { visitsRouter } from './routes/visits'
+import { usersRouter } from './routes/users'
+import { auditEventsRouter } from './routes/audit-events'
+import { projectRoot } from './project-root'
+
+export interface AppDependencies {
+  db: Db
+  config: AppConfig
+  logger: Logger
+  /** Folder of the built client; served when it exists. */
+  clientDir?: string
+}
+
+export function createApp({ db, config, logger, clientDir = join(projectRoot, 'dist') }: AppDependencies): Express {
+  const app = express()
+  app.disable('x-powered-by')
+  app.set('trust proxy', 'loopback')
+
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          // WebAssembly image codecs need 'wasm-unsafe-eval'; PrimeVue's theme injects <style> tags.
+          'script-src': ["'self'", "'wasm-unsafe-eval'"],
+          'style-src': ["'self'", "'unsafe-inline'"],
+          'img-src': ["'self'", 'data:', 'blob:'],
+          'worker-src': ["'self'", 'blob:'],
+          'connect-src': ["'self'"],
+          'frame-ancestors': ["'none'"],
+          'upgrade-insecure-requests': null,
+        },
+      },
+      // Served over plain HTTP on 127.0.0.1 in development and tests; production sits behind TLS.
+      strictTransportSecurity: config.NODE_ENV === 'production',
+    }),
+  )
+  app.use(pinoHttp({ logger, autoLogging: { ignore: (req) => req.url === '/api/health' }, serializers: { req: (req) => ({ method: req.method, url: String(req.url).split('?')[0] }) } }))
+  app.use(cookieParser())
+  app.use(express.json({ limit: '2mb' }))
+
+  const session = {
+    secret: config.JWT_SECRET,
+    lifetimeMinutes: config.SESSION_MINUTES,
+    secureCookie: config.NODE_ENV === 'production',
+  }
+  const requireSession = authenticate(db, session)
+
+  const api = express.Router()
+  api.use(sameOriginWrites)
+  api.use('/health', healthRouter(db))
+  api.use(
+    '/auth',
+    authRouter({
+      db,
+      session,
+      authenticate: requireSession,
+      maxFailures: config.LOGIN_MAX_FAILURES,
+      loginsPerMinute: config.LOGIN_RATE_LIMIT_PER_MINUTE,
+    }),
+  )
+  api.use(requireSession)
+  api.use('/patients', patientsRouter(db))
+  api.use('/visits', visitsRouter(db))
+  api.use('/users', usersRouter(db))
+  api.use('/audit-events', auditEventsRouter(db))
+  api.use(notFoundHandler)
+  app.use('/api', api)
+
+  if (existsSync(join(clientDir, 'index.html'))) {
+    app.use(express.static(clientDir, { index: false, maxAge: '1h', setHeaders: (res, path) => {
+      // Vite fingerprints everything under assets/, so those files never change.
+      if (path.includes('/assets/')) res.setHeader('Cache-Control', 'public, max-age=31536000, immutable')
+    } }))
+    app.get('/{*splat}', (_req, res) => {
+      res.setHeader('Cache-Control', 'no-cache')
+      res.sendFile(join(clientDir, 'index.html'))
+    })
+  }
+
+  app.use(errorHandler(config.NODE_ENV !== 'production'))
+  return app
+}

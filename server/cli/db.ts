@@ -1,0 +1,46 @@
+/**
+ * Database chores: `npm run db:start | db:stop | db:migrate | db:seed | db:reset`.
+ * db:reset drops every table of the development database, migrates and seeds the demo afresh.
+ */
+import { ensureEnvFile } from './env-file'
+
+ensureEnvFile()
+const { config } = await import('../config')
+const { bringUpDatabase, migrateLatest, withDb } = await import('./database-lifecycle')
+const { mariaDbPaths, stopMariaDb } = await import('./mariadb')
+
+const command = process.argv[2]
+const databases = [config.DB_NAME, config.DB_TEST_NAME]
+
+switch (command) {
+  case 'start':
+    await bringUpDatabase(config, databases)
+    break
+  case 'stop':
+    await stopMariaDb(mariaDbPaths(config.dataDirAbsolute))
+    break
+  case 'migrate':
+    await bringUpDatabase(config, databases)
+    await withDb(config.DB_NAME, migrateLatest)
+    break
+  case 'seed':
+    await bringUpDatabase(config, databases)
+    await withDb(config.DB_NAME, async (db) => {
+      await migrateLatest(db)
+      await db.seed.run()
+    })
+    console.log('Demo data seeded.')
+    break
+  case 'reset':
+    await bringUpDatabase(config, databases)
+    await withDb(config.DB_NAME, async (db) => {
+      await db.migrate.rollback(undefined, true)
+      await migrateLatest(db)
+      await db.seed.run()
+    })
+    console.log('Database reset to the demo data.')
+    break
+  default:
+    console.error('Usage: tsx server/cli/db.ts start|stop|migrate|seed|reset')
+    process.exit(2)
+}

@@ -1,0 +1,56 @@
+import { existsSync } from 'node:fs'
+import { resolve } from 'node:path'
+import { z } from 'zod'
+import { projectRoot } from './project-root'
+
+// .env is optional (tests pass everything through the environment); Node 20 reads it natively.
+const envFile = resolve(projectRoot, '.env')
+if (existsSync(envFile) && process.env.ENDPLATE_SKIP_ENV_FILE !== '1') process.loadEnvFile(envFile)
+
+const bool = z
+  .enum(['true', 'false', '1', '0'])
+  .transform((value) => value === 'true' || value === '1')
+
+const envSchema = z.object({
+  NODE_ENV: z.enum(['development', 'test', 'production']).default('development'),
+  HOST: z.string().default('127.0.0.1'),
+  PORT: z.coerce.number().int().min(0).max(65535).default(4780),
+  DB_HOST: z.string().default('127.0.0.1'),
+  DB_PORT: z.coerce.number().int().min(1).max(65535).default(4781),
+  DB_NAME: z.string().regex(/^[a-z0-9_]+$/).default('endplate'),
+  DB_TEST_NAME: z.string().regex(/^[a-z0-9_]+$/).default('endplate_test'),
+  DB_USER: z.string().regex(/^[a-z0-9_]+$/).default('endplate'),
+  DB_PASSWORD: z.string().min(1),
+  DB_DATA_DIR: z.string().default('.data/mariadb'),
+  JWT_SECRET: z.string().min(16, 'JWT_SECRET must be at least 16 characters'),
+  SESSION_MINUTES: z.coerce.number().int().min(1).max(24 * 60).default(30),
+  LOGIN_MAX_FAILURES: z.coerce.number().int().min(1).default(5),
+  LOGIN_RATE_LIMIT_PER_MINUTE: z.coerce.number().int().min(1).default(20),
+  UPLOAD_DIR: z.string().default('uploads'),
+  UPLOAD_MAX_MB: z.coerce.number().positive().default(100),
+  SMTP_HOST: z.string().default('127.0.0.1'),
+  SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(4782),
+  MAIL_FROM: z.string().default('Endplate <endplate@clinic.invalid>'),
+  MAIL_FAKE: bool.default(true),
+  LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+})
+
+export type AppConfig = Readonly<
+  z.infer<typeof envSchema> & { uploadDirAbsolute: string; dataDirAbsolute: string }
+>
+
+/** Validates an environment (process.env by default) into the frozen configuration. */
+export function parseConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
+  const parsed = envSchema.safeParse(env)
+  if (!parsed.success) {
+    const problems = parsed.error.issues.map((issue) => `${issue.path.join('.')}: ${issue.message}`)
+    throw new Error(`Invalid environment:\n  ${problems.join('\n  ')}`)
+  }
+  return Object.freeze({
+    ...parsed.data,
+    uploadDirAbsolute: resolve(projectRoot, parsed.data.UPLOAD_DIR),
+    dataDirAbsolute: resolve(projectRoot, parsed.data.DB_DATA_DIR),
+  })
+}
+
+export const config: AppConfig = parseConfig()

@@ -1,0 +1,43 @@
+/** One name per table, shared by migrations, seeds and repositories. */
+export const TABLES = {
+  users: 'users',
+  invitations: 'invitations',
+  patients: 'patients',
+  visits: 'visits',
+  planSegments: 'plan_segments',
+  images: 'images',
+  readings: 'readings',
+  comments: 'comments',
+  studies: 'studies',
+  studyPatients: 'study_patients',
+  studyMembers: 'study_members',
+  reliabilityRounds: 'reliability_rounds',
+  roundImages: 'round_images',
+  roundRaters: 'round_raters',
+  roundAssignments: 'round_assignments',
+  auditEvents: 'audit_events',
+  siteSettings: 'site_settings',
+  mailOutbox: 'mail_outbox',
+} as const
+
+/** Child tables before parents: the order to truncate or delete in. */
+export const TABLES_CHILDREN_FIRST = [
+  TABLES.mailOutbox,
+  TABLES.auditEvents,
+  TABLES.roundAssignments,
+  TABLES.roundRaters,
+  TABLES.roundImages,
+  TABLES.reliabilityRounds,
+  TABLES.studyMembers,
+  TABLES.studyPatients,
+  TABLES.studies,
+  TABLES.comments,
+  TABLES.readings,
+  TABLES.images,
+  TABLES.planSegments,
+  TABLES.visits,
+  TABLES.patients,
+  TABLES.invitations,
+  TABLES.siteSettings,
+  TABLES.users,
+] as const

@@ -1,0 +1,93 @@
+import type { Db } from './knex'
+import { TABLES } from './tables'
+import { toBoolean, toIsoDateTime, toIsoDateTimeOrNull } from './rows'
+import type { Role } from '../../shared/types/domain'
+
+export interface UserRecord {
+  id: number
+  email: string
+  displayName: string
+  role: Role
+  active: boolean
+  failedAttempts: number
+  lockedUntil: Date | null
+  lastLoginAt: string | null
+  createdAt: string
+}
+
+interface UserRow {
+  id: number
+  email: string
+  display_name: string
+  role: Role
+  active: number
+  failed_attempts: number
+  locked_until: Date | null
+  last_login_at: Date | null
+  created_at: Date
+}
+
+const COLUMNS = ['id', 'email', 'display_name', 'role', 'active', 'failed_attempts', 'locked_until', 'last_login_at', 'created_at']
+
+function toUser(row: UserRow): UserRecord {
+  return {
+    id: row.id,
+    email: row.email,
+    displayName: row.display_name,
+    role: row.role,
+    active: toBoolean(row.active),
+    failedAttempts: row.failed_attempts,
+    lockedUntil: row.locked_until,
+    lastLoginAt: toIsoDateTimeOrNull(row.last_login_at),
+    createdAt: toIsoDateTime(row.created_at),
+  }
+}
+
+export async function findUserById(db: Db, id: number): Promise<UserRecord | undefined> {
+  if (!Number.isSafeInteger(id)) return undefined
+  const row = (await db(TABLES.users).select(COLUMNS).where({ id }).first()) as UserRow | undefined
+  return row ? toUser(row) : undefined
+}
+
+/** The account with its password hash, for sign-in only. */
+export async function findUserForLogin(db: Db, email: string): Promise<(UserRecord & { passwordHash: string }) | undefined> {
+  const row = (await db(TABLES.users)
+    .select([...COLUMNS, 'password_hash'])
+    .where({ email: email.toLowerCase() })
+    .first()) as (UserRow & { password_hash: string }) | undefined
+  return row ? { ...toUser(row), passwordHash: row.password_hash } : undefined
+}
+
+export async function recordFailedLogin(db: Db, id: number, lockUntil: Date | null): Promise<void> {
+  await db(TABLES.users)
+    .where({ id })
+    .update({ failed_attempts: db.raw('failed_attempts + 1'), locked_until: lockUntil, updated_at: new Date() })
+}
+
+export async function recordSuccessfulLogin(db: Db, id: number): Promise<void> {
+  await db(TABLES.users)
+    .where({ id })
+    .update({ failed_attempts: 0, locked_until: null, last_login_at: new Date(), updated_at: new Date() })
+}
+
+export interface NewUser {
+  email: string
+  displayName: string
+  role: Role
+  passwordHash: string
+}
+
+export async function insertUser(db: Db, user: NewUser): Promise<number> {
+  const [id] = await db(TABLES.users).insert({
+    email: user.email.toLowerCase(),
+    display_name: user.displayName,
+    role: user.role,
+    password_hash: user.passwordHash,
+  })
+  return id as number
+}
+
+export async function listUsers(db: Db): Promise<UserRecord[]> {
+  const rows = (await db(TABLES.users).select(COLUMNS).orderBy('display_name')) as UserRow[]
+  return rows.map(toUser)
+}

@@ -1,0 +1,37 @@
+import { createServer } from 'node:http'
+import { config } from './config'
+import { createDb } from './db/knex'
+import { createLogger } from './logger'
+import { createApp } from './app'
+
+/** Starts the HTTP server; the only module that listens. Resolves once it is listening. */
+export async function startServer(): Promise<{ close(): Promise<void>; url: string }> {
+  const logger = createLogger(config.LOG_LEVEL)
+  const db = createDb(config.DB_NAME)
+  const server = createServer(createApp({ db, config, logger }))
+  await new Promise<void>((resolveListen, reject) => {
+    server.once('error', reject)
+    server.listen(config.PORT, config.HOST, () => resolveListen())
+  })
+  const url = `http://${config.HOST}:${config.PORT}`
+  return {
+    url,
+    async close() {
+      await new Promise<void>((resolveClose) => server.close(() => resolveClose()))
+      server.closeAllConnections()
+      await db.destroy()
+    },
+  }
+}
+
+// `tsx server/index.ts` (npm run dev:server) runs the API alone against an already running database.
+if (import.meta.url === `file://${process.argv[1]}`) {
+  const running = await startServer()
+  console.log(`Endplate API listening on ${running.url}`)
+  const stop = async () => {
+    await running.close()
+    process.exit(0)
+  }
+  process.once('SIGINT', stop)
+  process.once('SIGTERM', stop)
+}

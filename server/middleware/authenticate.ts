@@ -1,0 +1,49 @@
+import type { CookieOptions, RequestHandler, Response } from 'express'
+import type { Db } from '../db/knex'
+import { findUserById } from '../db/users'
+import { unauthorized } from '../errors'
+import {
+  SESSION_COOKIE,
+  signSessionToken,
+  verifySessionToken,
+  type TokenSettings,
+} from '../auth/session-token'
+import type { Role } from '../../shared/types/domain'
+
+export interface SessionCookieSettings extends TokenSettings {
+  secureCookie: boolean
+}
+
+export function sessionCookieOptions(settings: SessionCookieSettings): CookieOptions {
+  return {
+    httpOnly: true,
+    sameSite: 'strict',
+    secure: settings.secureCookie,
+    path: '/',
+    maxAge: settings.lifetimeMinutes * 60_000,
+  }
+}
+
+export function setSessionCookie(res: Response, userId: number, role: Role, settings: SessionCookieSettings): void {
+  res.cookie(SESSION_COOKIE, signSessionToken(userId, role, settings), sessionCookieOptions(settings))
+}
+
+/**
+ * Checks the session cookie and loads the account on every request, so a deactivated user or a
+ * changed role takes effect at once although the token itself is stateless. Past half its
+ * lifetime the token is renewed (sliding expiry).
+ */
+export function authenticate(db: Db, settings: SessionCookieSettings): RequestHandler {
+  return async (req, res, next) => {
+    const token: unknown = req.cookies?.[SESSION_COOKIE]
+    if (typeof token !== 'string' || token.length === 0) throw unauthorized()
+    const claims = verifySessionToken(token, settings.secret)
+    if (!claims) throw unauthorized('Your session has expired or is invalid. Please sign in again.')
+    const user = await findUserById(db, Number(claims.sub))
+    if (!user || !user.active) throw unauthorized('This account is not active.')
+    req.user = { id: user.id, email: user.email, displayName: user.displayName, role: user.role }
+    const halfLifeSeconds = (settings.lifetimeMinutes * 60) / 2
+    if (claims.exp - Date.now() / 1000 < halfLifeSeconds) setSessionCookie(res, user.id, user.role, settings)
+    next()
+  }
+}

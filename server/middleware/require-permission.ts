@@ -1,0 +1,12 @@
+import type { RequestHandler } from 'express'
+import { forbidden, unauthorized } from '../errors'
+import { roleCan, type Permission } from '../../shared/types/permissions'
+
+/** Refuses the request unless the signed-in user's role holds the permission. */
+export function requirePermission(permission: Permission): RequestHandler {
+  return (req, _res, next) => {
+    if (!req.user) throw unauthorized()
+    if (!roleCan(req.user.role, permission)) throw forbidden()
+    next()
+  }
+}

@@ -1,0 +1,20 @@
+import { z } from 'zod'
+
+/** A calendar date written YYYY-MM-DD that really exists (no 2023-02-30). */
+export const isoDate = z
+  .string({ error: 'must be a date written YYYY-MM-DD' })
+  .regex(/^\d{4}-\d{2}-\d{2}$/, 'must be a date written YYYY-MM-DD')
+  .refine((text) => {
+    const date = new Date(`${text}T00:00:00Z`)
+    return !Number.isNaN(date.getTime()) && date.toISOString().slice(0, 10) === text
+  }, 'is not a real calendar date')
+
+export const notInFuture = (text: string) => text <= new Date().toISOString().slice(0, 10)
+
+export const idParam = z.object({
+  id: z.coerce.number({ error: 'id must be a number' }).int('id must be a whole number').positive('id must be positive'),
+})
+
+export const version = z.number({ error: 'must be the version number you last read' }).int().positive()
+
+export const trimmed = (max: number) => z.string().trim().max(max, `must be at most ${max} characters`)

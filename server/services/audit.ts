@@ -1,0 +1,22 @@
+import type { Db } from '../db/knex'
+import { insertAuditEvent } from '../db/audit'
+import type { SessionUser } from '../../shared/types/api'
+
+/** Who is acting and from where: passed from routes into services for the audit trail. */
+export interface Actor {
+  user: SessionUser
+  ip: string | null
+}
+
+export type AuditAction = 'create' | 'update' | 'delete' | 'view' | 'sign' | 'submit' | 'export' | 'login' | 'login-failed' | 'logout' | 'lockout'
+
+export async function audit(
+  db: Db,
+  actor: Actor | null,
+  action: AuditAction,
+  entity: string,
+  entityId: string | number | null,
+  summary: string,
+): Promise<void> {
+  await insertAuditEvent(db, { userId: actor?.user.id ?? null, action, entity, entityId, summary, ip: actor?.ip ?? null })
+}

@@ -1,0 +1,41 @@
+import bcrypt from 'bcryptjs'
+import type { Db } from '../db/knex'
+import { findUserForLogin, recordFailedLogin, recordSuccessfulLogin } from '../db/users'
+import { HttpError } from '../errors'
+import { insertAuditEvent } from '../db/audit'
+import type { LoginInput, SessionUser } from '../../shared/types/api'
+
+/** One message for every failure, so the answer never tells which accounts exist or are locked. */
+export const LOGIN_FAILED_MESSAGE =
+  'Sign-in failed. Check the e-mail address and password; after repeated failures an account is locked for 15 minutes.'
+
+export const LOCKOUT_MINUTES = 15
+
+// A real bcrypt hash of a random string, compared against when the e-mail is unknown so that
+// both paths take the same time.
+const DUMMY_HASH = '$2b$10$VYe2/tfujan3AC2uoVOx5ONcz6MjdIk7YRz6pds63uX7v1RLCKM9O'
+
+export async function login(db: Db, input: LoginInput, maxFailures: number, ip: string | null): Promise<SessionUser> {
+  const user = await findUserForLogin(db, input.email)
+  const passwordMatches = await bcrypt.compare(input.password, user?.passwordHash ?? DUMMY_HASH)
+  const locked = user?.lockedUntil !== null && user?.lockedUntil !== undefined && user.lockedUntil > new Date()
+  if (!user || !user.active || locked || !passwordMatches) {
+    if (user && user.active && !locked) {
+      const reachesLimit = user.failedAttempts + 1 >= maxFailures
+      const lockUntil = reachesLimit ? new Date(Date.now() + LOCKOUT_MINUTES * 60_000) : null
+      await recordFailedLogin(db, user.id, lockUntil)
+      if (reachesLimit) {
+        await insertAuditEvent(db, { userId: user.id, action: 'lockout', entity: 'user', entityId: user.id, summary: `Locked for ${LOCKOUT_MINUTES} minutes after ${maxFailures} failed sign-ins`, ip })
+      }
+    }
+    await insertAuditEvent(db, { userId: user?.id ?? null, action: 'login-failed', entity: 'user', entityId: user?.id ?? null, summary: 'Failed sign-in', ip })
+    throw new HttpError(401, 'login_failed', LOGIN_FAILED_MESSAGE)
+  }
+  await recordSuccessfulLogin(db, user.id)
+  await insertAuditEvent(db, { userId: user.id, action: 'login', entity: 'user', entityId: user.id, summary: 'Signed in', ip })
+  return { id: user.id, email: user.email, displayName: user.displayName, role: user.role }
+}
+
+export async function hashPassword(password: string): Promise<string> {
+  return bcrypt.hash(password, 10)
+}

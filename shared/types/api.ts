@@ -1,0 +1,142 @@
+import type { MotionSegment, Role, Sex, VisitKind } from './domain'
+
+/** The one error body every API failure answers with. */
+export interface ApiErrorBody {
+  error: { code: string; message: string; details?: Record<string, string[]> }
+}
+
+export interface Page<T> {
+  items: T[]
+  total: number
+}
+
+export interface SessionUser {
+  id: number
+  email: string
+  displayName: string
+  role: Role
+}
+
+export interface LoginInput {
+  email: string
+  password: string
+}
+
+/** A patient as clinicians see it. */
+export interface IdentifiedPatient {
+  kind: 'identified'
+  id: number
+  recordNumber: string
+  familyName: string
+  givenName: string
+  birthDate: string
+  sex: Sex
+  studyCode: string
+  osteoporosis: boolean
+  notes: string | null
+  visitCount: number
+  lastVisitDate: string | null
+  version: number
+  createdAt: string
+  updatedAt: string
+}
+
+/** A patient as researchers see it: a pseudonym and ages only. */
+export interface DeidentifiedPatient {
+  kind: 'deidentified'
+  id: number
+  studyCode: string
+  sex: Sex
+  ageAtFirstVisitYears: number | null
+  visitCount: number
+}
+
+export type Patient = IdentifiedPatient | DeidentifiedPatient
+
+export interface PatientInput {
+  recordNumber: string
+  familyName: string
+  givenName: string
+  birthDate: string
+  sex: Sex
+  osteoporosis?: boolean
+  notes?: string | null
+}
+
+export type PatientPatch = Partial<PatientInput> & { version: number }
+
+export const PATIENT_SORT_FIELDS = ['familyName', 'recordNumber', 'birthDate', 'studyCode', 'updatedAt'] as const
+export type PatientSortField = (typeof PATIENT_SORT_FIELDS)[number]
+
+export interface PatientQuery {
+  q?: string
+  sort?: PatientSortField
+  order?: 'asc' | 'desc'
+  offset?: number
+  limit?: number
+}
+
+export interface IdentifiedVisit {
+  kind: 'identified'
+  id: number
+  patientId: number
+  visitDate: string
+  visitKind: VisitKind
+  monthsSinceSurgery: number | null
+  indication: string | null
+  ageAtVisitYears: number
+  version: number
+  createdAt: string
+}
+
+export interface DeidentifiedVisit {
+  kind: 'deidentified'
+  id: number
+  patientId: number
+  /** 1 for the first visit of the patient, in time order. */
+  sequence: number
+  visitKind: VisitKind
+  monthsSinceSurgery: number | null
+  ageAtVisitYears: number
+}
+
+export type Visit = IdentifiedVisit | DeidentifiedVisit
+
+export interface VisitInput {
+  visitDate: string
+  visitKind: VisitKind
+  monthsSinceSurgery?: number | null
+  indication?: string | null
+}
+
+export type VisitPatch = Partial<VisitInput> & { version: number }
+
+export interface HealthStatus {
+  status: 'ok' | 'degraded'
+  database: 'up' | 'down'
+  migrations: { applied: number; pending: number } | null
+  version: string
+}
+
+export type { MotionSegment }
+
+export interface UserSummary {
+  id: number
+  email: string
+  displayName: string
+  role: Role
+  active: boolean
+  lastLoginAt: string | null
+  createdAt: string
+}
+
+export interface AuditEvent {
+  id: number
+  at: string
+  userId: number | null
+  userName: string | null
+  action: string
+  entity: string
+  entityId: string | null
+  summary: string
+}

@@ -1,0 +1,36 @@
+import type { Role } from './domain'
+
+/**
+ * What each role may do. The server enforces these on every route; the client uses the same
+ * table only to hide what a role cannot use.
+ */
+export const PERMISSIONS = {
+  /** Search and open patients (researchers get de-identified records). */
+  'patient:read': ['surgeon', 'fellow', 'researcher'],
+  /** Names, record numbers, birth and visit dates. */
+  'patient:identify': ['surgeon', 'fellow'],
+  'patient:write': ['surgeon', 'fellow'],
+  'visit:write': ['surgeon', 'fellow'],
+  'plan:write': ['surgeon'],
+  'image:upload': ['surgeon', 'fellow'],
+  'reading:write': ['surgeon', 'fellow'],
+  'reading:sign': ['surgeon'],
+  'measurement:compute': ['admin', 'surgeon', 'fellow', 'researcher'],
+  'study:manage': ['researcher'],
+  'user:manage': ['admin'],
+  'audit:read': ['admin'],
+  'settings:write': ['admin'],
+} as const satisfies Record<string, readonly Role[]>
+
+export type Permission = keyof typeof PERMISSIONS
+
+export function roleCan(role: Role, permission: Permission): boolean {
+  return (PERMISSIONS[permission] as readonly Role[]).includes(role)
+}
+
+export const ROLE_LABELS: Record<Role, string> = {
+  admin: 'Administrator',
+  surgeon: 'Surgeon',
+  fellow: 'Fellow',
+  researcher: 'Researcher',
+}

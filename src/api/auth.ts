@@ -1,0 +1,6 @@
+import type { LoginInput, SessionUser } from '@shared/types/api'
+import { http } from './http'
+
+export const signIn = (input: LoginInput) => http.post<SessionUser>('/auth/login', input)
+export const signOut = () => http.post<void>('/auth/logout')
+export const getCurrentUser = () => http.get<SessionUser>('/auth/me')

@@ -1,0 +1,67 @@
+import { createRouter, createWebHistory, type RouteLocationRaw, type RouteRecordRaw } from 'vue-router'
+import type { Permission } from '@shared/types/permissions'
+import { useSessionStore } from '@/stores/session'
+import SignInView from '@/views/SignInView.vue'
+
+/** Every route name; navigation goes by name so a typo does not compile. */
+export type RouteName = 'sign-in' | 'patients' | 'patient' | 'administration' | 'not-found'
+
+declare module 'vue-router' {
+  interface RouteMeta {
+    /** Public routes need no session. */
+    public?: boolean
+    /** The permission a route needs; mirrors the server's checks so menus and links agree. */
+    permission?: Permission
+    title?: string
+  }
+}
+
+const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
+  { path: '/sign-in', name: 'sign-in', component: SignInView, meta: { public: true, title: 'Sign in' } },
+  { path: '/', redirect: () => ({ name: 'patients' }) },
+  {
+    path: '/patients',
+    name: 'patients',
+    component: () => import('@/views/PatientsView.vue'),
+    meta: { permission: 'patient:read', title: 'Patients' },
+  },
+  {
+    path: '/patients/:patientId',
+    name: 'patient',
+    component: () => import('@/views/PatientView.vue'),
+    props: (route) => ({ patientId: Number(route.params.patientId) }),
+    meta: { permission: 'patient:read', title: 'Patient' },
+  },
+  {
+    path: '/administration',
+    name: 'administration',
+    component: () => import('@/views/AdministrationView.vue'),
+    meta: { permission: 'user:manage', title: 'Administration' },
+  },
+  { path: '/:pathMatch(.*)*', name: 'not-found', component: () => import('@/views/NotFoundView.vue'), meta: { public: true, title: 'Not found' } },
+]
+
+export const router = createRouter({ history: createWebHistory(), routes })
+
+/** Where a role lands after sign-in: the first screen it may use. */
+export function homeFor(can: (permission: Permission) => boolean): RouteLocationRaw {
+  if (can('patient:read')) return { name: 'patients' }
+  if (can('user:manage')) return { name: 'administration' }
+  return { name: 'not-found' }
+}
+
+router.beforeEach(async (to) => {
+  const session = useSessionStore()
+  await session.restore().catch(() => undefined)
+  if (to.meta.public) {
+    if (to.name === 'sign-in' && session.isSignedIn) return homeFor(session.can)
+    return true
+  }
+  if (!session.isSignedIn) return { name: 'sign-in', query: { next: to.fullPath } }
+  if (to.meta.permission && !session.can(to.meta.permission)) return homeFor(session.can)
+  return true
+})
+
+router.afterEach((to) => {
+  document.title = to.meta.title ? `${to.meta.title} · Endplate` : 'Endplate'
+})

@@ -1,0 +1,28 @@
+import type { Sex, VisitKind } from '@shared/types/domain'
+
+const dateFormat = new Intl.DateTimeFormat('en-GB', { day: '2-digit', month: 'short', year: 'numeric', timeZone: 'UTC' })
+
+/** "14 Mar 1968" from "1968-03-14": unambiguous whatever the reader's locale habits. */
+export function formatDate(isoDate: string | null): string {
+  if (!isoDate) return '—'
+  return dateFormat.format(new Date(`${isoDate.slice(0, 10)}T00:00:00Z`))
+}
+
+export function formatDateTime(iso: string): string {
+  return new Intl.DateTimeFormat('en-GB', { dateStyle: 'medium', timeStyle: 'short' }).format(new Date(iso))
+}
+
+export const SEX_LABELS: Record<Sex, string> = { female: 'Female', male: 'Male', other: 'Other', unknown: 'Not recorded' }
+
+export const VISIT_KIND_LABELS: Record<VisitKind, string> = {
+  'pre-op': 'Pre-op',
+  'post-op': 'Post-op',
+  'follow-up': 'Follow-up',
+}
+
+/** "12 months" or "2 years" for follow-up intervals. */
+export function formatInterval(months: number | null): string {
+  if (months === null) return ''
+  if (months > 0 && months % 12 === 0) return months === 12 ? '1 year' : `${months / 12} years`
+  return months === 1 ? '1 month' : `${months} months`
+}
