@@ -1,0 +1,29 @@
+// dcmjs ships no types (its TypeScript port was never finished); this declares only the part the
+// phantom writer and the tests use: naturalized datasets in, Part 10 bytes out.
+declare module 'dcmjs' {
+  type NaturalDataset = Record<string, unknown>
+  type DenaturalizedDataset = Record<string, { vr: string; Value: unknown[] }>
+
+  interface DicomDictInstance {
+    meta: DenaturalizedDataset
+    dict: DenaturalizedDataset
+    write(options?: { allowInvalidVRLength?: boolean }): ArrayBuffer
+  }
+
+  interface Dcmjs {
+    data: {
+      DicomDict: new (meta: DenaturalizedDataset) => DicomDictInstance
+      DicomMetaDictionary: {
+        uid(): string
+        naturalizeDataset(dataset: DenaturalizedDataset): NaturalDataset
+        denaturalizeDataset(dataset: NaturalDataset): DenaturalizedDataset
+      }
+      DicomMessage: {
+        readFile(buffer: ArrayBuffer): { meta: DenaturalizedDataset; dict: DenaturalizedDataset }
+      }
+    }
+  }
+
+  const dcmjs: Dcmjs
+  export = dcmjs
+}
