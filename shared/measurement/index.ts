@@ -1,0 +1,51 @@
+export { computeMeasurements } from './compute-measurements'
+export { computeUncertainty, meyerdingUncertainty } from './uncertainty'
+export {
+  BORDERLINE_PROBABILITY,
+  DEFAULT_SIGMA_MM,
+  DEFAULT_SIGMA_PX,
+  Z_95,
+  type UncertaintyOptions,
+} from './uncertainty'
+export { computeMotionPair, instabilityCriteria, INSTABILITY_CRITERIA } from './motion-pair'
+export {
+  computeSubsidence,
+  DEFAULT_SUBSIDENCE_THRESHOLD_MM,
+  subsidenceFromDiscHeightsMm,
+  type SubsidenceOptions,
+} from './subsidence'
+export {
+  checkSegmentPlan,
+  DYNAMIC_TRANSLATION_LIMIT_MM,
+  estimatePlannedLordosis,
+  RESIDUAL_DISC_HEIGHT_LIMIT_MM,
+  type PlannedLordosisInput,
+  type PlannedSegment,
+  type SegmentPlanCheckInput,
+} from './plan-checks'
+export {
+  parseLandmarkDocument,
+  RIM_COLLINEAR_TOLERANCE,
+  ZERO_LENGTH_TOLERANCE_PX,
+} from './parse-landmark-document'
+export { LandmarkDocumentError, type LandmarkDocumentErrorCode } from './landmark-document-error'
+export {
+  cagePointName,
+  cornerName,
+  implantMarkerName,
+  isKnownLandmarkName,
+  KNOWN_LANDMARK_NAMES,
+  rimPointName,
+  SEGMENT_NAMES,
+  SEGMENTS,
+} from './landmark-names'
+export {
+  isHighGradeSlip,
+  MEYERDING_RULE,
+  meyerdingGradeFromSlipPercent,
+  roundSlipPercent,
+  slipDirectionFromSlipPercent,
+} from './meyerding'
+export { piLlBandFromMismatchDeg, targetLordosisDeg } from './alignment'
+export { pelvicParameters } from './pelvis'
+export { SOURCES } from './sources'
