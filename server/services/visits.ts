@@ -108,7 +108,12 @@ export async function patchVisit(db: Db, actor: Actor, visitId: number, patch: V
     if (fields.visitDate) assertAfterBirth(fields.visitDate, patient)
     // Changing the kind away from follow-up clears the interval rather than leaving a stale one.
     const monthsSinceSurgery = kind === 'follow-up' ? months : null
-    const changed = await updateVisit(trx, visitId, version, { ...fields, monthsSinceSurgery })
+    const changed = await updateVisit(trx, visitId, version, {
+      visitDate: fields.visitDate,
+      kind: fields.visitKind,
+      indication: fields.indication,
+      monthsSinceSurgery,
+    })
     if (!changed) {
       throw conflict('Someone else changed this visit since you opened it. Reload to see their changes.', {
         version: [`version: current version is ${visit.version}`],

@@ -1,11 +1,12 @@
 import type { Sex, VisitKind } from '@shared/types/domain'
 
-const dateFormat = new Intl.DateTimeFormat('en-GB', { day: '2-digit', month: 'short', year: 'numeric', timeZone: 'UTC' })
+const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec']
 
 /** "14 Mar 1968" from "1968-03-14": unambiguous whatever the reader's locale habits. */
 export function formatDate(isoDate: string | null): string {
   if (!isoDate) return '—'
-  return dateFormat.format(new Date(`${isoDate.slice(0, 10)}T00:00:00Z`))
+  const [year, month, day] = isoDate.slice(0, 10).split('-')
+  return `${day} ${MONTHS[Number(month) - 1] ?? '?'} ${year}`
 }
 
 export function formatDateTime(iso: string): string {

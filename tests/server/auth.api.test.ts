@@ -162,9 +162,11 @@ describe('session tokens', () => {
   it('stops accepting the session of an account deactivated after sign-in', async () => {
     const { app, config } = buildTestApp(db)
     const user = await createTestUser(db, config, 'fellow')
-    await request(app).get('/api/auth/me').set('Cookie', user.cookie).expect(200)
+    expect((await request(app).get('/api/auth/me').set('Cookie', user.cookie)).status).toBe(200)
     await db(TABLES.users).where({ id: user.id }).update({ active: false })
-    await request(app).get('/api/auth/me').set('Cookie', user.cookie).expect(401)
+    const res = await request(app).get('/api/auth/me').set('Cookie', user.cookie)
+    expect(res.status).toBe(401)
+    expect(res.body.error.message).toBe('This account is not active.')
   })
 
   it('renews a token past half its lifetime (sliding expiry)', async () => {

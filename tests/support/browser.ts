@@ -1,0 +1,56 @@
+import { existsSync, mkdirSync, mkdtempSync } from 'node:fs'
+import { createServer, type Server } from 'node:http'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import { chromium, type BrowserContext } from 'playwright-core'
+import { pino } from 'pino'
+import { createApp } from '../../server/app'
+import type { Db } from '../../server/db/knex'
+import { projectRoot } from '../../server/project-root'
+import { testConfig } from './test-app'
+
+export const SCREENSHOT_DIR = join(projectRoot, 'tests', 'output')
+
+/** Debian's Chromium driven by playwright-core; no browser download ever happens. */
+export async function launchBrowser(): Promise<BrowserContext> {
+  return chromium.launchPersistentContext(mkdtempSync(join(tmpdir(), 'endplate-profile-')), {
+    executablePath: '/usr/bin/chromium',
+    headless: true,
+    viewport: { width: 1440, height: 900 },
+    args: [
+      '--headless',
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-quic',
+      '--no-first-run',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+    ],
+  })
+}
+
+/** Serves the built client and the API on a free port of 127.0.0.1. */
+export async function startAppServer(db: Db): Promise<{ url: string; close(): Promise<void> }> {
+  const clientDir = join(projectRoot, 'dist')
+  if (!existsSync(join(clientDir, 'index.html'))) {
+    throw new Error('The client is not built: run `npx vite build` (npm test does it) before the browser tests.')
+  }
+  const app = createApp({ db, config: testConfig(), logger: pino({ level: 'silent' }), clientDir })
+  const server: Server = createServer(app)
+  await new Promise<void>((resolveListen) => server.listen(0, '127.0.0.1', () => resolveListen()))
+  const address = server.address()
+  if (!address || typeof address === 'string') throw new Error('No port')
+  return {
+    url: `http://127.0.0.1:${address.port}`,
+    async close() {
+      server.closeAllConnections()
+      await new Promise<void>((resolveClose) => server.close(() => resolveClose()))
+    },
+  }
+}
+
+export function screenshotPath(name: string): string {
+  mkdirSync(SCREENSHOT_DIR, { recursive: true })
+  return join(SCREENSHOT_DIR, `${name}.png`)
+}
