@@ -37,9 +37,11 @@ export interface RenditionOptions {
 // (server/bench/ingest.bench.ts): higher settings cost 2–4× the time for 5–15 % smaller files,
 // and the ingest must stay within 1.5× of sharp's own decode and resize.
 function encode(image: Sharp, format: RenditionFormat): Sharp {
+  // Without b-w, sharp widens one grey channel to sRGB: three times the bytes to compress.
+  const grey = image.toColourspace('b-w')
   return format === 'webp'
-    ? image.webp({ quality: 90, effort: 0 })
-    : image.png({ compressionLevel: 1, adaptiveFiltering: false })
+    ? grey.webp({ quality: 90, effort: 0 })
+    : grey.png({ compressionLevel: 1, adaptiveFiltering: false })
 }
 
 async function rendition(image: Sharp, format: RenditionFormat): Promise<Rendition> {
