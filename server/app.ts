@@ -18,6 +18,10 @@ import { patientsRouter } from './routes/patients'
 import { visitsRouter } from './routes/visits'
 import { usersRouter } from './routes/users'
 import { auditEventsRouter } from './routes/audit-events'
+import { measurementsRouter } from './routes/measurements'
+import { imagesRouter } from './routes/images'
+import { createLocalFileStore } from './storage/local-file-store'
+import type { FileStore } from './storage/file-store'
 import { projectRoot } from './project-root'
 
 export interface AppDependencies {
@@ -26,9 +30,11 @@ export interface AppDependencies {
   logger: Logger
   /** Folder of the built client; served when it exists. */
   clientDir?: string
+  /** Where films live; the local uploads folder unless a test or deployment passes another. */
+  store?: FileStore
 }
 
-export function createApp({ db, config, logger, clientDir = join(projectRoot, 'dist') }: AppDependencies): Express {
+export function createApp({ db, config, logger, clientDir = join(projectRoot, 'dist'), store = createLocalFileStore(config.uploadDirAbsolute) }: AppDependencies): Express {
   const app = express()
   app.disable('x-powered-by')
   app.set('trust proxy', 'loopback')
@@ -77,9 +83,11 @@ export function createApp({ db, config, logger, clientDir = join(projectRoot, 'd
   )
   api.use(requireSession)
   api.use('/patients', patientsRouter(db))
-  api.use('/visits', visitsRouter(db))
+  api.use('/visits', visitsRouter(db, { store, uploadTmpDir: join(config.uploadDirAbsolute, 'tmp'), uploadMaxMb: config.UPLOAD_MAX_MB }))
+  api.use('/images', imagesRouter(db, store))
   api.use('/users', usersRouter(db))
   api.use('/audit-events', auditEventsRouter(db))
+  api.use('/measurements', measurementsRouter())
   api.use(notFoundHandler)
   app.use('/api', api)
 

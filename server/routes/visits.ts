@@ -1,3 +1,4 @@
+import { rm } from 'node:fs/promises'
 import { Router } from 'express'
 import type { Db } from '../db/knex'
 import { validate } from '../middleware/validate'
@@ -6,8 +7,18 @@ import { idParam } from '../schemas/common'
 import { patchVisitBody } from '../schemas/visits'
 import { getVisit, patchVisit } from '../services/visits'
 import { actorOf } from './actor'
+import type { FileStore } from '../storage/file-store'
+import { filmUpload, uploadErrorHandler, uploadsOf } from '../middleware/upload'
+import { uploadFields } from '../schemas/images'
+import { listVisitImages, uploadImages } from '../services/images'
 
-export function visitsRouter(db: Db): Router {
+export interface VisitsRouterOptions {
+  store: FileStore
+  uploadTmpDir: string
+  uploadMaxMb: number
+}
+
+export function visitsRouter(db: Db, options: VisitsRouterOptions): Router {
   const router = Router()
 
   router.get('/:id', requirePermission('patient:read'), validate('params', idParam), async (req, res) => {
@@ -18,5 +29,32 @@ export function visitsRouter(db: Db): Router {
     res.json(await patchVisit(db, actorOf(req), res.locals.params.id, req.body))
   })
 
+  router.get('/:id/images', requirePermission('patient:read'), validate('params', idParam), async (req, res) => {
+    res.json(await listVisitImages(db, actorOf(req), res.locals.params.id))
+  })
+
+  // Permission and id are checked before multer streams anything to disk.
+  router.post(
+    '/:id/images',
+    requirePermission('image:upload'),
+    validate('params', idParam),
+    filmUpload(options.uploadTmpDir, options.uploadMaxMb),
+    async (req, res) => {
+      const files = uploadsOf(req.files)
+      const parsed = uploadFields.safeParse(req.body ?? {})
+      if (!parsed.success) {
+        await Promise.all(files.map((file) => rm(file.path, { force: true })))
+        throw parsed.error
+      }
+      const records = await uploadImages(db, options.store, actorOf(req), res.locals.params.id, {
+        files,
+        views: parsed.data.view,
+        confirmPatientMismatch: parsed.data.confirmPatientMismatch,
+      })
+      res.status(201).json(records)
+    },
+  )
+
+  router.use(uploadErrorHandler(options.uploadMaxMb))
   return router
 }

@@ -140,3 +140,59 @@ export interface AuditEvent {
   entityId: string | null
   summary: string
 }
+
+/** A film as the API returns it. Identifying DICOM attributes are left out for researchers. */
+export interface ImageRecord {
+  id: number
+  visitId: number
+  view: import('./domain').ImageView
+  fileKind: 'dicom' | 'png' | 'jpeg' | 'tiff'
+  width: number
+  height: number
+  bitsStored: number
+  /** Millimetres per pixel as [row, column], or null when the film has no usable spacing. */
+  mmPerPixel: [row: number, column: number] | null
+  spacingSource: import('./domain').SpacingSource
+  spacingNote: string | null
+  manualCalibration: ManualCalibration | null
+  window: { center: number; width: number } | null
+  acquiredAt: string | null
+  dicom: DicomSummary | null
+  contentHash: string
+  sizeBytes: number
+  version: number
+  createdAt: string
+  urls: { display: string; preview: string; thumbnail: string; fullDepth: string }
+}
+
+export interface DicomSummary {
+  modality: string | null
+  transferSyntax: string
+  photometricInterpretation: string | null
+  bitsAllocated: number | null
+  bitsStored: number | null
+  studyDate: string | null
+  acquisitionDate: string | null
+  /** Only for roles that may see identified data. */
+  patient?: { name: string | null; id: string | null; birthDate: string | null; sex: string | null }
+}
+
+export interface ManualCalibration {
+  line: [[number, number], [number, number]]
+  lengthMm: number
+  lengthPx: number
+  calibratedAt: string
+  calibratedBy: number
+}
+
+export interface CalibrationInput {
+  line: [[number, number], [number, number]]
+  lengthMm?: number
+  version: number
+}
+
+/** A DICOM header that does not match the visit's patient: the upload waits for confirmation. */
+export interface PatientMismatch {
+  file: string
+  differences: Array<{ field: 'name' | 'id' | 'birthDate' | 'studyDate'; inFile: string; onRecord: string }>
+}

@@ -1,0 +1,178 @@
+import type { Db } from './knex'
+import { TABLES } from './tables'
+import { toIsoDateTime, toIsoDateTimeOrNull } from './rows'
+import type { ImageView, SpacingSource } from '../../shared/types/domain'
+import type { ManualCalibration } from '../../shared/types/api'
+
+export type FileKind = 'dicom' | 'png' | 'jpeg' | 'tiff'
+
+export interface StoredDicomAttributes {
+  modality: string | null
+  transferSyntax: string
+  photometricInterpretation: string | null
+  bitsAllocated: number | null
+  bitsStored: number | null
+  studyDate: string | null
+  acquisitionDate: string | null
+  patient: { name: string | null; id: string | null; birthDate: string | null; sex: string | null }
+}
+
+export interface ImageRow {
+  id: number
+  visitId: number
+  view: ImageView
+  fileKind: FileKind
+  contentHash: string
+  originalPath: string
+  displayPath: string
+  previewPath: string
+  thumbnailPath: string
+  fullDepthPath: string
+  originalName: string | null
+  sizeBytes: number
+  width: number
+  height: number
+  bitsStored: number
+  mmPerPixelRow: number | null
+  mmPerPixelColumn: number | null
+  spacingSource: SpacingSource
+  spacingNote: string | null
+  manualCalibration: ManualCalibration | null
+  windowCenter: number | null
+  windowWidth: number | null
+  acquiredAt: string | null
+  dicomAttributes: StoredDicomAttributes | null
+  version: number
+  uploadedBy: number
+  createdAt: string
+}
+
+type RawRow = Record<string, unknown>
+
+function parseJson<T>(value: unknown): T | null {
+  if (value === null || value === undefined) return null
+  return (typeof value === 'string' ? JSON.parse(value) : value) as T
+}
+
+function toImage(row: RawRow): ImageRow {
+  return {
+    id: row.id as number,
+    visitId: row.visit_id as number,
+    view: row.view as ImageView,
+    fileKind: row.file_kind as FileKind,
+    contentHash: row.content_hash as string,
+    originalPath: row.original_path as string,
+    displayPath: row.display_path as string,
+    previewPath: row.preview_path as string,
+    thumbnailPath: row.thumbnail_path as string,
+    fullDepthPath: row.full_depth_path as string,
+    originalName: row.original_name as string | null,
+    sizeBytes: Number(row.size_bytes),
+    width: row.width as number,
+    height: row.height as number,
+    bitsStored: row.bits_stored as number,
+    mmPerPixelRow: row.mm_per_pixel_row as number | null,
+    mmPerPixelColumn: row.mm_per_pixel_column as number | null,
+    spacingSource: row.spacing_source as SpacingSource,
+    spacingNote: row.spacing_note as string | null,
+    manualCalibration: parseJson<ManualCalibration>(row.manual_calibration),
+    windowCenter: row.window_center as number | null,
+    windowWidth: row.window_width as number | null,
+    acquiredAt: toIsoDateTimeOrNull(row.acquired_at as Date | null),
+    dicomAttributes: parseJson<StoredDicomAttributes>(row.dicom_attributes),
+    version: row.version as number,
+    uploadedBy: row.uploaded_by as number,
+    createdAt: toIsoDateTime(row.created_at as Date),
+  }
+}
+
+export async function findImage(db: Db, id: number): Promise<ImageRow | undefined> {
+  const row = (await db(TABLES.images).where({ id }).first()) as RawRow | undefined
+  return row ? toImage(row) : undefined
+}
+
+export async function listImagesOfVisit(db: Db, visitId: number): Promise<ImageRow[]> {
+  const rows = (await db(TABLES.images).where({ visit_id: visitId }).orderBy('id')) as RawRow[]
+  return rows.map(toImage)
+}
+
+export async function findImageByHash(db: Db, visitId: number, contentHash: string): Promise<ImageRow | undefined> {
+  const row = (await db(TABLES.images).where({ visit_id: visitId, content_hash: contentHash }).first()) as RawRow | undefined
+  return row ? toImage(row) : undefined
+}
+
+/** How many stored images still point at a content hash (files are shared across visits). */
+export async function countImagesWithHash(db: Db, contentHash: string): Promise<number> {
+  const [{ count }] = (await db(TABLES.images).where({ content_hash: contentHash }).count({ count: '*' })) as [{ count: number | string }]
+  return Number(count)
+}
+
+export type NewImage = Omit<ImageRow, 'id' | 'version' | 'createdAt' | 'manualCalibration'>
+
+export async function insertImage(db: Db, image: NewImage): Promise<number> {
+  const [id] = await db(TABLES.images).insert({
+    visit_id: image.visitId,
+    view: image.view,
+    file_kind: image.fileKind,
+    content_hash: image.contentHash,
+    original_path: image.originalPath,
+    display_path: image.displayPath,
+    preview_path: image.previewPath,
+    thumbnail_path: image.thumbnailPath,
+    full_depth_path: image.fullDepthPath,
+    original_name: image.originalName,
+    size_bytes: image.sizeBytes,
+    width: image.width,
+    height: image.height,
+    bits_stored: image.bitsStored,
+    mm_per_pixel_row: image.mmPerPixelRow,
+    mm_per_pixel_column: image.mmPerPixelColumn,
+    spacing_source: image.spacingSource,
+    spacing_note: image.spacingNote,
+    window_center: image.windowCenter,
+    window_width: image.windowWidth,
+    acquired_at: image.acquiredAt ? new Date(image.acquiredAt) : null,
+    dicom_attributes: image.dicomAttributes ? JSON.stringify(image.dicomAttributes) : null,
+    uploaded_by: image.uploadedBy,
+  })
+  return id as number
+}
+
+export async function updateImageCalibration(
+  db: Db,
+  id: number,
+  expectedVersion: number,
+  calibration: { mmPerPixelRow: number; mmPerPixelColumn: number; manual: ManualCalibration; note: string },
+): Promise<boolean> {
+  const changed = await db(TABLES.images)
+    .where({ id, version: expectedVersion })
+    .update({
+      mm_per_pixel_row: calibration.mmPerPixelRow,
+      mm_per_pixel_column: calibration.mmPerPixelColumn,
+      spacing_source: 'manual',
+      spacing_note: calibration.note,
+      manual_calibration: JSON.stringify(calibration.manual),
+      version: db.raw('version + 1'),
+      updated_at: new Date(),
+    })
+  return changed === 1
+}
+
+export async function updateImageView(db: Db, id: number, expectedVersion: number, view: ImageView): Promise<boolean> {
+  const changed = await db(TABLES.images)
+    .where({ id, version: expectedVersion })
+    .update({ view, version: db.raw('version + 1'), updated_at: new Date() })
+  return changed === 1
+}
+
+export async function countReadingsOfImage(db: Db, imageId: number): Promise<number> {
+  const [{ count }] = (await db(TABLES.readings)
+    .where({ image_id: imageId })
+    .orWhere({ paired_image_id: imageId })
+    .count({ count: '*' })) as [{ count: number | string }]
+  return Number(count)
+}
+
+export async function deleteImage(db: Db, id: number): Promise<void> {
+  await db(TABLES.images).where({ id }).delete()
+}

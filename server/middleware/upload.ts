@@ -1,0 +1,92 @@
+import { createHash, randomUUID } from 'node:crypto'
+import { createWriteStream, mkdirSync } from 'node:fs'
+import { rm } from 'node:fs/promises'
+import { join } from 'node:path'
+import { pipeline } from 'node:stream/promises'
+import { Transform } from 'node:stream'
+import multer, { type StorageEngine } from 'multer'
+import type { ErrorRequestHandler, RequestHandler } from 'express'
+import { HttpError } from '../errors'
+
+/** What the upload storage hands the route for each file. */
+export interface StreamedUpload {
+  /** Temporary path under UPLOAD_DIR/tmp, named randomly, never after the client's name. */
+  path: string
+  size: number
+  sha256: string
+  originalName: string
+}
+
+/**
+ * A multer storage engine that streams each file to a random temporary name while computing its
+ * SHA-256, so the film can be filed by content hash without reading it twice.
+ */
+function hashingDiskStorage(tmpDir: string): StorageEngine {
+  return {
+    _handleFile(_req, file, callback) {
+      // Made on every upload: an operator clearing the uploads folder must not break the next one.
+      mkdirSync(tmpDir, { recursive: true })
+      const path = join(tmpDir, `${randomUUID()}.upload`)
+      const hash = createHash('sha256')
+      let size = 0
+      const counter = new Transform({
+        transform(chunk: Buffer, _encoding, next) {
+          hash.update(chunk)
+          size += chunk.length
+          next(null, chunk)
+        },
+      })
+      pipeline(file.stream, counter, createWriteStream(path))
+        .then(() => callback(null, { path, size, sha256: hash.digest('hex') } as Partial<Express.Multer.File>))
+        .catch(async (error: unknown) => {
+          await rm(path, { force: true })
+          callback(error as Error)
+        })
+    },
+    _removeFile(_req, file, callback) {
+      rm(file.path, { force: true }).then(() => callback(null), callback)
+    },
+  }
+}
+
+/** Keeps a display name only: no folders, no control characters, at most 255 characters. */
+export function safeDisplayName(name: string): string {
+  const base = name.split(/[\\/]/).pop() ?? ''
+  // eslint-disable-next-line no-control-regex
+  const cleaned = base.replace(/[\u0000-\u001f\u007f]/g, '').trim()
+  return cleaned.slice(0, 255) || 'unnamed'
+}
+
+export function filmUpload(tmpDir: string, maxMegabytes: number): RequestHandler {
+  return multer({
+    storage: hashingDiskStorage(tmpDir),
+    limits: { fileSize: Math.round(maxMegabytes * 1024 * 1024), files: 20, fields: 50 },
+  }).array('file', 20)
+}
+
+export function uploadsOf(files: unknown): StreamedUpload[] {
+  return ((files as Array<Express.Multer.File & { sha256: string }>) ?? []).map((file) => ({
+    path: file.path,
+    size: file.size,
+    sha256: file.sha256,
+    originalName: safeDisplayName(file.originalname),
+  }))
+}
+
+/** Multer's own errors as clear 4xx answers (it has already removed the partial files). */
+export function uploadErrorHandler(maxMegabytes: number): ErrorRequestHandler {
+  return (error, _req, _res, next) => {
+    if (!(error instanceof multer.MulterError)) {
+      next(error)
+      return
+    }
+    const messages: Record<string, [number, string]> = {
+      LIMIT_FILE_SIZE: [413, `A file is larger than the ${maxMegabytes} MB limit.`],
+      LIMIT_FILE_COUNT: [400, 'At most 20 files can be uploaded at once.'],
+      LIMIT_UNEXPECTED_FILE: [400, `Files must be sent in the multipart field "file" (got "${error.field ?? ''}").`],
+      LIMIT_FIELD_COUNT: [400, 'Too many form fields.'],
+    }
+    const [status, message] = messages[error.code] ?? [400, `Upload refused: ${error.message}`]
+    next(new HttpError(status, status === 413 ? 'too_large' : 'upload_refused', message))
+  }
+}

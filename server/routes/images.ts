@@ -1,0 +1,47 @@
+import { Router } from 'express'
+import type { Db } from '../db/knex'
+import type { FileStore } from '../storage/file-store'
+import { validate } from '../middleware/validate'
+import { requirePermission } from '../middleware/require-permission'
+import { idParam } from '../schemas/common'
+import { calibrationBody, renditionParams } from '../schemas/images'
+import { calibrateImage, getImage, openRendition, removeImage } from '../services/images'
+import { actorOf } from './actor'
+
+export function imagesRouter(db: Db, store: FileStore): Router {
+  const router = Router()
+
+  router.get('/:id', requirePermission('patient:read'), validate('params', idParam), async (req, res) => {
+    res.json(await getImage(db, actorOf(req), res.locals.params.id))
+  })
+
+  router.delete('/:id', requirePermission('image:upload'), validate('params', idParam), async (req, res) => {
+    await removeImage(db, store, actorOf(req), res.locals.params.id)
+    res.status(204).end()
+  })
+
+  router.patch('/:id/calibration', requirePermission('image:upload'), validate('params', idParam), validate('body', calibrationBody), async (req, res) => {
+    res.json(await calibrateImage(db, actorOf(req), res.locals.params.id, req.body))
+  })
+
+  // Renditions are immutable per content hash (the URL carries it), so browsers may keep them;
+  // "private" keeps shared caches from holding patient images.
+  router.get('/:id/files/:name', requirePermission('patient:read'), validate('params', renditionParams), async (req, res) => {
+    const { stream, mediaType, etag } = await openRendition(db, store, actorOf(req), res.locals.params.id, res.locals.params.name)
+    if (req.get('if-none-match') === etag) {
+      stream.destroy()
+      res.status(304).end()
+      return
+    }
+    res.setHeader('Content-Type', mediaType)
+    res.setHeader('Cache-Control', 'private, max-age=31536000, immutable')
+    res.setHeader('ETag', etag)
+    await new Promise<void>((resolveStream, reject) => {
+      stream.on('error', reject)
+      stream.on('end', () => resolveStream())
+      stream.pipe(res)
+    })
+  })
+
+  return router
+}

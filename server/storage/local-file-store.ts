@@ -1,0 +1,42 @@
+import { createReadStream } from 'node:fs'
+import { access, mkdir, readFile, rename, rm, writeFile } from 'node:fs/promises'
+import { dirname, join } from 'node:path'
+import { randomUUID } from 'node:crypto'
+import { assertSafeKey, type FileStore } from './file-store'
+
+/** Files under one folder (UPLOAD_DIR). Writes go to a temporary name first, then rename. */
+export function createLocalFileStore(root: string): FileStore {
+  const pathOf = (key: string) => {
+    assertSafeKey(key)
+    return join(root, key)
+  }
+  return {
+    async put(key, data) {
+      const target = pathOf(key)
+      await mkdir(dirname(target), { recursive: true })
+      // A crash mid-write leaves a stray temporary file, never a truncated film under its real key.
+      const temporary = `${target}.${randomUUID()}.part`
+      await writeFile(temporary, data)
+      await rename(temporary, target)
+    },
+    async putFile(key, localPath) {
+      const target = pathOf(key)
+      await mkdir(dirname(target), { recursive: true })
+      // Same file system (temporary uploads live under the same root), so this is atomic.
+      await rename(localPath, target)
+    },
+    read: (key) => readFile(pathOf(key)),
+    stream: (key) => createReadStream(pathOf(key)),
+    async exists(key) {
+      try {
+        await access(pathOf(key))
+        return true
+      } catch {
+        return false
+      }
+    },
+    async remove(key) {
+      await rm(pathOf(key), { force: true })
+    },
+  }
+}
