@@ -8,6 +8,6 @@ export async function seedDemoWhenEmpty(db: Db): Promise<void> {
     console.log('Existing data kept (npm run db:reset starts over with the demo).')
     return
   }
-  console.log('Seeding the demo clinic ...')
+  console.log('Seeding the demo clinic and rendering its synthetic films (about a minute) ...')
   await db.seed.run()
 }
