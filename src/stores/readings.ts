@@ -1,0 +1,485 @@
+import { computed, ref } from 'vue'
+import { defineStore } from 'pinia'
+import type { ImageRecord, Visit } from '@shared/types/api'
+import type { PixelPoint } from '@shared/types/landmarks'
+import type { Reading } from '@shared/types/readings'
+import { templateLandmarks, templateNeedsPairedImage } from '@shared/readings/templates'
+import { getReading, getReadingVisit, patchReading, submitReading } from '@/api/readings'
+import { calibrateImage, getImage } from '@/api/images'
+import { ApiError } from '@/api/http'
+
+export type SaveState = 'saved' | 'saving' | 'unsaved' | 'offline' | 'conflict' | 'error'
+/** Which film of the reading: the image, or the paired (extension) image of a motion pair. */
+export type FilmSide = 'primary' | 'paired'
+export type PointMap = Record<string, PixelPoint>
+
+interface Snapshot {
+  points: PointMap
+  pairedPoints: PointMap
+}
+
+/** Quiet time after the last edit before a draft is sent. */
+export const AUTOSAVE_DELAY_MS = 800
+/** Waits between retries while the server cannot be reached; the last one repeats. */
+export const RETRY_DELAYS_MS = [1000, 2000, 4000, 8000, 15000, 30000] as const
+/** Landmarks a reading may be submitted without (the template hint says when to skip them). */
+export const OPTIONAL_LANDMARKS: ReadonlySet<string> = new Set(['FH2'])
+
+const RETRYABLE_STATUSES = new Set([0, 502, 503, 504])
+
+function copyPoints(points: PointMap): PointMap {
+  const copy: PointMap = {}
+  for (const [name, [x, y]] of Object.entries(points)) copy[name] = [x, y]
+  return copy
+}
+
+function samePoints(a: PointMap, b: PointMap): boolean {
+  const names = Object.keys(a)
+  if (names.length !== Object.keys(b).length) return false
+  return names.every((name) => {
+    const other = b[name]
+    const mine = a[name] as PixelPoint
+    return other !== undefined && other[0] === mine[0] && other[1] === mine[1]
+  })
+}
+
+function messageOf(caught: unknown): string {
+  return caught instanceof Error ? caught.message : String(caught)
+}
+
+export const useReadingsStore = defineStore('readings', () => {
+  const reading = ref<Reading | null>(null)
+  const film = ref<ImageRecord | null>(null)
+  const pairedFilm = ref<ImageRecord | null>(null)
+  const visit = ref<Visit | null>(null)
+  const loadError = ref<string | null>(null)
+
+  const points = ref<PointMap>({})
+  const pairedPoints = ref<PointMap>({})
+  const activeSide = ref<FilmSide>('primary')
+  const selectedName = ref<string | null>(null)
+  /** False after Escape: clicks on the film no longer place the next landmark. */
+  const placing = ref(true)
+  const undoStack = ref<Snapshot[]>([])
+  const redoStack = ref<Snapshot[]>([])
+
+  const saveState = ref<SaveState>('saved')
+  const saveMessage = ref<string | null>(null)
+  /** The other version when a save met a newer one (409). */
+  const conflict = ref<Reading | null>(null)
+  const lastSavedAt = ref<Date | null>(null)
+  /** True while local landmarks differ from what the server last accepted. */
+  const dirty = ref(false)
+
+  let editRevision = 0
+  let saveTimer: ReturnType<typeof setTimeout> | null = null
+  let retryAttempt = 0
+  let inFlight: Promise<void> | null = null
+  let dragStart: Snapshot | null = null
+
+  const specs = computed(() =>
+    reading.value ? templateLandmarks(reading.value.template, reading.value.options) : [],
+  )
+  const isPair = computed(() =>
+    reading.value ? templateNeedsPairedImage(reading.value.template) : false,
+  )
+  const readOnly = computed(() => reading.value === null || reading.value.status !== 'draft')
+  const sidePoints = (side: FilmSide) => (side === 'primary' ? points : pairedPoints)
+  const activePoints = computed(() => sidePoints(activeSide.value).value)
+  /** The first landmark of the checklist not yet placed on the active film. */
+  const nextName = computed(
+    () => specs.value.find((spec) => !(spec.name in activePoints.value))?.name ?? null,
+  )
+  const missingRequired = computed(() => {
+    const missing: string[] = []
+    const sides: FilmSide[] = isPair.value ? ['primary', 'paired'] : ['primary']
+    for (const side of sides) {
+      for (const spec of specs.value) {
+        if (!OPTIONAL_LANDMARKS.has(spec.name) && !(spec.name in sidePoints(side).value))
+          missing.push(spec.name)
+      }
+    }
+    return missing
+  })
+  const canSubmit = computed(
+    () => !readOnly.value && missingRequired.value.length === 0 && saveState.value !== 'conflict',
+  )
+  const canUndo = computed(() => !readOnly.value && undoStack.value.length > 0)
+  const canRedo = computed(() => !readOnly.value && redoStack.value.length > 0)
+
+  function clearTimer(): void {
+    if (saveTimer !== null) clearTimeout(saveTimer)
+    saveTimer = null
+  }
+
+  function scheduleSave(delayMs: number): void {
+    clearTimer()
+    saveTimer = setTimeout(() => {
+      saveTimer = null
+      void save()
+    }, delayMs)
+  }
+
+  function adopt(loaded: Reading): void {
+    reading.value = loaded
+    points.value = copyPoints(loaded.landmarks.points)
+    pairedPoints.value = copyPoints(loaded.pairedLandmarks?.points ?? {})
+  }
+
+  async function load(readingId: number): Promise<void> {
+    reset()
+    try {
+      const loaded = await getReading(readingId)
+      const [image, paired] = await Promise.all([
+        getImage(loaded.imageId),
+        loaded.pairedImageId === null ? Promise.resolve(null) : getImage(loaded.pairedImageId),
+      ])
+      adopt(loaded)
+      film.value = image
+      pairedFilm.value = paired
+      // The patient context is a courtesy; the workspace still works without it.
+      visit.value = await getReadingVisit(image.visitId).catch(() => null)
+    } catch (caught) {
+      loadError.value =
+        caught instanceof ApiError && caught.status === 404
+          ? 'This reading does not exist or is not in your studies.'
+          : messageOf(caught)
+    }
+  }
+
+  function snapshot(): Snapshot {
+    return { points: copyPoints(points.value), pairedPoints: copyPoints(pairedPoints.value) }
+  }
+
+  function restore(state: Snapshot): void {
+    points.value = copyPoints(state.points)
+    pairedPoints.value = copyPoints(state.pairedPoints)
+  }
+
+  function markEdited(): void {
+    editRevision += 1
+    dirty.value = true
+    if (saveState.value === 'conflict') return
+    if (saveState.value !== 'offline' && saveState.value !== 'saving') saveState.value = 'unsaved'
+    // While offline the retry timer owns the next attempt.
+    if (saveState.value !== 'offline') scheduleSave(AUTOSAVE_DELAY_MS)
+  }
+
+  /** One history step from `before` to now; nothing when nothing changed. */
+  function commitFrom(before: Snapshot): void {
+    if (
+      samePoints(before.points, points.value) &&
+      samePoints(before.pairedPoints, pairedPoints.value)
+    )
+      return
+    undoStack.value.push(before)
+    redoStack.value = []
+    markEdited()
+  }
+
+  function placePoint(name: string, pointPx: PixelPoint, side: FilmSide = activeSide.value): void {
+    if (readOnly.value) return
+    const before = snapshot()
+    sidePoints(side).value[name] = [pointPx[0], pointPx[1]]
+    selectedName.value = name
+    commitFrom(before)
+  }
+
+  /** Pointer-down on a landmark: remembers where the history step starts. */
+  function beginDrag(): void {
+    if (!readOnly.value) dragStart = snapshot()
+  }
+
+  /** Every pointer move: updates the point (results follow) without a history step. */
+  function dragPoint(name: string, pointPx: PixelPoint, side: FilmSide = activeSide.value): void {
+    if (readOnly.value || dragStart === null) return
+    sidePoints(side).value[name] = [pointPx[0], pointPx[1]]
+  }
+
+  /** Pointer-up: one history step for the whole drag. */
+  function endDrag(): void {
+    if (dragStart !== null) commitFrom(dragStart)
+    dragStart = null
+  }
+
+  function removePoint(name: string, side: FilmSide = activeSide.value): void {
+    if (readOnly.value || !(name in sidePoints(side).value)) return
+    const before = snapshot()
+    const next = { ...sidePoints(side).value }
+    delete next[name]
+    sidePoints(side).value = next
+    commitFrom(before)
+  }
+
+  function undo(): void {
+    const previous = undoStack.value.pop()
+    if (!previous || readOnly.value) return
+    redoStack.value.push(snapshot())
+    restore(previous)
+    markEdited()
+  }
+
+  function redo(): void {
+    const next = redoStack.value.pop()
+    if (!next || readOnly.value) return
+    undoStack.value.push(snapshot())
+    restore(next)
+    markEdited()
+  }
+
+  function select(name: string | null, side: FilmSide = activeSide.value): void {
+    selectedName.value = name
+    activeSide.value = side
+    if (name !== null) placing.value = true
+  }
+
+  /** Tab / Shift-Tab: the next or previous checklist row, wrapping round. */
+  function selectStep(step: 1 | -1): void {
+    const names = specs.value.map((spec) => spec.name)
+    if (names.length === 0) return
+    const current = selectedName.value === null ? -1 : names.indexOf(selectedName.value)
+    const index =
+      current === -1
+        ? step === 1
+          ? 0
+          : names.length - 1
+        : (current + step + names.length) % names.length
+    select(names[index] ?? null)
+  }
+
+  /**
+   * The landmark a click places: the selected one while it is still unplaced or when the user
+   * picked a row to re-place it, else the next unplaced one.
+   */
+  function targetForClick(): string | null {
+    if (!placing.value || readOnly.value) return null
+    if (selectedName.value !== null && !(selectedName.value in activePoints.value))
+      return selectedName.value
+    return nextName.value
+  }
+
+  function stopPlacing(): void {
+    placing.value = false
+    selectedName.value = null
+  }
+
+  function backoffDelay(): number {
+    const delay = RETRY_DELAYS_MS[Math.min(retryAttempt, RETRY_DELAYS_MS.length - 1)] as number
+    retryAttempt += 1
+    return delay
+  }
+
+  async function enterConflict(message: string): Promise<void> {
+    clearTimer()
+    saveState.value = 'conflict'
+    saveMessage.value = message
+    const id = reading.value?.id
+    if (id === undefined) return
+    try {
+      conflict.value = await getReading(id)
+    } catch (caught) {
+      saveMessage.value = `${message} The other version could not be loaded: ${messageOf(caught)}`
+    }
+  }
+
+  async function handleSaveError(caught: unknown): Promise<void> {
+    const error = caught instanceof ApiError ? caught : null
+    if (error?.status === 409) {
+      await enterConflict('Someone else saved this reading after you opened it.')
+      return
+    }
+    saveMessage.value = messageOf(caught)
+    if (error !== null && RETRYABLE_STATUSES.has(error.status)) {
+      saveState.value = error.status === 0 ? 'offline' : 'error'
+      scheduleSave(backoffDelay())
+      return
+    }
+    // Validation, permission or a status change elsewhere: retrying would not help; the
+    // landmarks stay here and the user can try again.
+    saveState.value = 'error'
+  }
+
+  /** Sends the draft now (autosave calls this; so do Retry and leaving). */
+  async function save(): Promise<void> {
+    if (inFlight) {
+      await inFlight
+      if (dirty.value && saveState.value === 'unsaved') return save()
+      return
+    }
+    const current = reading.value
+    if (!current || readOnly.value || !dirty.value || saveState.value === 'conflict') return
+    clearTimer()
+    const revision = editRevision
+    saveState.value = 'saving'
+    const body = {
+      points: copyPoints(points.value),
+      ...(isPair.value ? { pairedPoints: copyPoints(pairedPoints.value) } : {}),
+      version: current.version,
+    }
+    inFlight = (async () => {
+      try {
+        const updated = await patchReading(current.id, body)
+        reading.value = updated
+        retryAttempt = 0
+        saveMessage.value = null
+        if (editRevision === revision) {
+          dirty.value = false
+          saveState.value = 'saved'
+          lastSavedAt.value = new Date()
+        } else {
+          saveState.value = 'unsaved'
+          scheduleSave(AUTOSAVE_DELAY_MS)
+        }
+      } catch (caught) {
+        await handleSaveError(caught)
+      } finally {
+        inFlight = null
+      }
+    })()
+    await inFlight
+  }
+
+  /** Retry at once (the Retry button, or the browser coming back online). */
+  function retryNow(): void {
+    if (saveState.value === 'offline' || saveState.value === 'error') {
+      saveState.value = 'unsaved'
+      void save()
+    }
+  }
+
+  /** Conflict: take the other version; ours stays one Undo away. */
+  function loadTheirs(): void {
+    const theirs = conflict.value
+    if (!theirs) return
+    undoStack.value.push(snapshot())
+    redoStack.value = []
+    adopt(theirs)
+    conflict.value = null
+    dirty.value = false
+    saveState.value = 'saved'
+    saveMessage.value = null
+  }
+
+  /** Conflict: keep our landmarks and save them on top of the other version. */
+  async function overwriteTheirs(): Promise<void> {
+    const theirs = conflict.value
+    if (!theirs || !reading.value) return
+    reading.value = { ...theirs }
+    conflict.value = null
+    dirty.value = true
+    saveState.value = 'unsaved'
+    saveMessage.value = null
+    await save()
+  }
+
+  async function submit(): Promise<void> {
+    if (!canSubmit.value || !reading.value) return
+    if (dirty.value) await save()
+    if (dirty.value || saveState.value !== 'saved' || !reading.value) return
+    try {
+      reading.value = await submitReading(reading.value.id, reading.value.version)
+    } catch (caught) {
+      if (caught instanceof ApiError && caught.status === 409) {
+        await enterConflict('The reading changed before it could be submitted.')
+        return
+      }
+      saveMessage.value = messageOf(caught)
+      throw caught
+    }
+  }
+
+  /** Manual calibration of one film; the new spacing reaches the results at once. */
+  async function calibrate(
+    side: FilmSide,
+    line: [[number, number], [number, number]],
+    lengthMm: number,
+  ): Promise<void> {
+    const target = side === 'primary' ? film : pairedFilm
+    if (!target.value) return
+    target.value = await calibrateImage(target.value.id, {
+      line,
+      lengthMm,
+      version: target.value.version,
+    })
+    // The server computes the stored results with the film's spacing: save again to refresh them.
+    if (!readOnly.value) {
+      dirty.value = true
+      editRevision += 1
+      if (saveState.value !== 'conflict') {
+        saveState.value = 'unsaved'
+        scheduleSave(0)
+      }
+    }
+  }
+
+  function reset(): void {
+    clearTimer()
+    reading.value = null
+    film.value = null
+    pairedFilm.value = null
+    visit.value = null
+    loadError.value = null
+    points.value = {}
+    pairedPoints.value = {}
+    activeSide.value = 'primary'
+    selectedName.value = null
+    placing.value = true
+    undoStack.value = []
+    redoStack.value = []
+    saveState.value = 'saved'
+    saveMessage.value = null
+    conflict.value = null
+    lastSavedAt.value = null
+    dirty.value = false
+    retryAttempt = 0
+    dragStart = null
+  }
+
+  return {
+    reading,
+    film,
+    pairedFilm,
+    visit,
+    loadError,
+    points,
+    pairedPoints,
+    activeSide,
+    selectedName,
+    placing,
+    undoStack,
+    redoStack,
+    saveState,
+    saveMessage,
+    conflict,
+    lastSavedAt,
+    dirty,
+    specs,
+    isPair,
+    readOnly,
+    activePoints,
+    nextName,
+    missingRequired,
+    canSubmit,
+    canUndo,
+    canRedo,
+    load,
+    placePoint,
+    beginDrag,
+    dragPoint,
+    endDrag,
+    removePoint,
+    undo,
+    redo,
+    select,
+    selectStep,
+    targetForClick,
+    stopPlacing,
+    save,
+    retryNow,
+    loadTheirs,
+    overwriteTheirs,
+    submit,
+    calibrate,
+    reset,
+  }
+})
