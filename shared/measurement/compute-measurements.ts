@@ -15,8 +15,12 @@ import { measureSegment } from './segment-measures'
  */
 export function measurePrepared(prepared: PreparedPoints): MeasurementResult {
   const { work, spacing } = prepared
-  const segments = {} as Record<SegmentName, SegmentMeasurement>
-  for (const spec of SEGMENTS) segments[spec.name] = measureSegment(spec, prepared)
+  // Only computable segments get a key, so a reader never mistakes an empty one for a result.
+  const segments: Partial<Record<SegmentName, SegmentMeasurement>> = {}
+  for (const spec of SEGMENTS) {
+    const segment = measureSegment(spec, prepared)
+    if (segment !== null) segments[spec.name] = segment
+  }
   const lumbarLordosisDeg = lordosisToSacrumDeg(work, 'L1')
   const sacrumPs = work['S1.ps']
   const sacrumAs = work['S1.as']
@@ -51,8 +55,9 @@ export function measurePrepared(prepared: PreparedPoints): MeasurementResult {
  * contract of §10). The document is validated first, so untrusted input is fine: it throws
  * `LandmarkDocumentError` for anything `parseLandmarkDocument` refuses. Angles in degrees
  * (lordosis positive, slip angle kyphosis positive), slips in % of the lower endplate depth, mm
- * values null when the document has no `mmPerPixel`. Every key is present; a value whose
- * landmarks are missing is null; no value is NaN or infinite. No uncertainty: see
+ * values null when the document has no `mmPerPixel`. A segment is present only when it can be
+ * computed (U's four corners and W's `as` and `ps`); every other key is present, and a value
+ * whose landmarks or calibration are missing is null; no value is NaN or infinite. No uncertainty: see
  * `computeUncertainty`.
  */
 export function computeMeasurements(doc: LandmarkDocument): MeasurementResult {

@@ -1,7 +1,6 @@
 import { pointMidpoint } from '../geometry/point'
 import type { Point } from '../geometry/types'
 import { vectorLength, vectorSubtract } from '../geometry/vector'
-import type { DiscHeights } from '../types/measurement'
 
 /**
  * Point-to-point disc heights of a segment, in the unit and space of the points (pixels of the
@@ -21,9 +20,4 @@ export function discHeights(
     vectorSubtract(pointMidpoint(upperPi, upperAi), pointMidpoint(lowerPs, lowerAs)),
   )
   return { anterior, middle, posterior, mean: (anterior + posterior) / 2 }
-}
-
-/** Disc heights with every member null, for a segment whose landmarks are missing. */
-export function missingDiscHeights(): DiscHeights {
-  return { anterior: null, middle: null, posterior: null, mean: null }
 }

@@ -96,7 +96,8 @@ export function instabilityCriteria(
  * |d(flexion) − d(extension)| in mm, each film with its own calibration (null if either is
  * uncalibrated); translation % = |slip %(flexion) − slip %(extension)|, i.e. each film
  * normalised by its own endplate depth, so a magnification difference between the films
- * cancels (Hipp et al. 2023 [V]). Both documents are validated (LandmarkDocumentError).
+ * cancels (Hipp et al. 2023 [V]). A segment is present only when it is measured on both films.
+ * Both documents are validated (LandmarkDocumentError).
  */
 export function computeMotionPair(
   flexion: LandmarkDocument,
@@ -104,10 +105,12 @@ export function computeMotionPair(
 ): MotionPairResult {
   const flexed = computeMeasurements(flexion)
   const extended = computeMeasurements(extension)
-  const segments = {} as Record<SegmentName, MotionSegmentResult>
+  const segments: Partial<Record<SegmentName, MotionSegmentResult>> = {}
   for (const segment of SEGMENT_NAMES) {
     const f = flexed.segments[segment]
     const e = extended.segments[segment]
+    // Motion needs the segment on both films.
+    if (f === undefined || e === undefined) continue
     const rangeOfMotionDeg =
       f.segmentalLordosisDeg === null || e.segmentalLordosisDeg === null
         ? null

@@ -2,7 +2,7 @@ import { angleWrapDeg } from '../geometry/angle'
 import type { Point } from '../geometry/types'
 import { vectorDot, vectorLength, vectorSubtract, vectorUnit } from '../geometry/vector'
 import type { SegmentMeasurement, SegmentName } from '../types/measurement'
-import { discHeights, missingDiscHeights } from './disc-height'
+import { discHeights } from './disc-height'
 import { frameLineAngleDeg, lookUpFrame, type SegmentFrame } from './frame'
 import {
   cagePointName,
@@ -42,25 +42,6 @@ function upperCorners(
   const ai = points[cornerName(upper, 'ai')]
   if (as === undefined || ps === undefined || pi === undefined || ai === undefined) return null
   return { as, ps, pi, ai }
-}
-
-function emptySegment(withSlipAngle: boolean, calibrated: boolean): SegmentMeasurement {
-  return {
-    slipPercent: null,
-    slipMm: null,
-    slipPx: null,
-    meyerdingGrade: null,
-    slipDirection: null,
-    highGrade: null,
-    segmentalLordosisDeg: null,
-    discAngleDeg: null,
-    discHeightPx: missingDiscHeights(),
-    discHeightMm: calibrated ? missingDiscHeights() : null,
-    ...(withSlipAngle ? { slipAngleDeg: null } : {}),
-    cageLordosisDeg: null,
-    implantPositionPercent: null,
-    implantOffsetMm: null,
-  }
 }
 
 /**
@@ -103,11 +84,16 @@ function cageLordosisDeg(
 }
 
 /**
- * All measures of one motion segment (measurement-reference §3 and §7). Computed when U has
- * four corners and W has `as` and `ps`; otherwise every value is null. Angles, percentages and
- * mm values come from `work` space, pixel values from the pixel grid.
+ * All measures of one motion segment (measurement-reference §3 and §7), or null when it cannot
+ * be computed: it needs U's four corners and W's `as` and `ps` (a degenerate frame is refused
+ * earlier, by the parser). Within a computed segment a value whose own landmarks or calibration
+ * are missing is null. Angles, percentages and mm values come from `work` space, pixel values
+ * from the pixel grid.
  */
-export function measureSegment(spec: SegmentSpec, prepared: PreparedPoints): SegmentMeasurement {
+export function measureSegment(
+  spec: SegmentSpec,
+  prepared: PreparedPoints,
+): SegmentMeasurement | null {
   const { px, work } = prepared
   const calibrated = prepared.spacing !== null
   const withSlipAngle = spec.name === 'L5-S1' && px['S1.pw'] !== undefined
@@ -127,7 +113,7 @@ export function measureSegment(spec: SegmentSpec, prepared: PreparedPoints): Seg
     lowerAsPx === undefined ||
     lookup.kind !== 'frame'
   ) {
-    return emptySegment(withSlipAngle, calibrated)
+    return null
   }
   const frame = lookup.frame
   const depthWork = vectorLength(vectorSubtract(lowerAsWork, lowerPsWork))

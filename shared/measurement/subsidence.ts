@@ -55,7 +55,8 @@ export function subsidenceFromDiscHeightsMm(
 
 /**
  * Subsidence of every segment of `current` against `baseline`, the first post-op reading of the
- * same segment. Needs calibration on both films (mm); otherwise the segment's values are null.
+ * same segment. A segment is present only when it is measured on both readings; it needs
+ * calibration on both films (mm), otherwise its values are null.
  * Both documents are validated (LandmarkDocumentError); a negative or non-finite threshold
  * throws RangeError.
  */
@@ -70,11 +71,15 @@ export function computeSubsidence(
   }
   const now = computeMeasurements(current)
   const before = computeMeasurements(baseline)
-  const segments = {} as Record<SegmentName, SubsidenceSegmentResult>
+  const segments: Partial<Record<SegmentName, SubsidenceSegmentResult>> = {}
   for (const segment of SEGMENT_NAMES) {
+    const baselineSegment = before.segments[segment]
+    const currentSegment = now.segments[segment]
+    // A loss needs the segment measured on both films.
+    if (baselineSegment === undefined || currentSegment === undefined) continue
     segments[segment] = subsidenceFromDiscHeightsMm(
-      before.segments[segment].discHeightMm,
-      now.segments[segment].discHeightMm,
+      baselineSegment.discHeightMm,
+      currentSegment.discHeightMm,
       thresholdMm,
     )
   }

@@ -145,9 +145,12 @@ export function computeUncertainty(
     return { value, standardDeviation: sd, low: value - Z_95 * sd, high: value + Z_95 * sd }
   }) as IntervalTree<MeasurementResult>
 
-  const meyerding = {} as Record<SegmentName, MeyerdingUncertainty | null>
+  // Keys follow the measured segments; null where the slip interval could not be formed.
+  const meyerding: Partial<Record<SegmentName, MeyerdingUncertainty | null>> = {}
   for (const segment of SEGMENT_NAMES) {
-    const slip = measurements.segments[segment].slipPercent
+    const intervals = measurements.segments[segment]
+    if (intervals === undefined) continue
+    const slip = intervals.slipPercent
     meyerding[segment] =
       slip === null ? null : meyerdingUncertainty(slip.value, slip.standardDeviation)
   }

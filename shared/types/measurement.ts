@@ -1,9 +1,11 @@
 /**
  * Result DTOs of the measurement engine (shared/measurement), shared by the command line, the
  * API and the client. Angles are degrees, lengths are mm or image pixels as the key says,
- * percentages are 0–100 based. A value whose landmarks or calibration are missing is null; its
- * key is still present (measurement-reference §10), except `slipAngleDeg`, present only at
- * L5-S1 when `S1.pw` is given.
+ * percentages are 0–100 based. A segment key is present only when the segment can be computed
+ * (its upper vertebra's four corners and its lower vertebra's superior endplate corners). A
+ * value whose landmarks or calibration are missing is null; its key is still present
+ * (measurement-reference §10), except `slipAngleDeg`, present only at L5-S1 when `S1.pw` is
+ * given.
  */
 
 /** The five lumbar motion segments, upper vertebra first. */
@@ -73,7 +75,8 @@ export interface CalibrationSummary {
 
 /** The full result of `computeMeasurements` (measurement-reference §10 contract plus extras). */
 export interface MeasurementResult {
-  segments: Record<SegmentName, SegmentMeasurement>
+  /** Only the segments that could be computed. */
+  segments: Partial<Record<SegmentName, SegmentMeasurement>>
   /** L1 superior to S1 superior endplate, lordosis positive (Polly et al. 1996 [V]). */
   lumbarLordosisDeg: number | null
   /** L4 superior to S1 superior endplate, lordosis positive (Yukawa et al. 2019 [V]). */
@@ -134,7 +137,8 @@ export interface UncertaintyResult {
   /** z of the two-sided 95 % interval. */
   z: number
   measurements: IntervalTree<MeasurementResult>
-  meyerding: Record<SegmentName, MeyerdingUncertainty | null>
+  /** One key per measured segment; null when its slip interval could not be formed. */
+  meyerding: Partial<Record<SegmentName, MeyerdingUncertainty | null>>
 }
 
 /** Identifier of a published instability criterion. */
@@ -163,7 +167,8 @@ export interface MotionSegmentResult {
 }
 
 export interface MotionPairResult {
-  segments: Record<SegmentName, MotionSegmentResult>
+  /** Only the segments measured on both films. */
+  segments: Partial<Record<SegmentName, MotionSegmentResult>>
 }
 
 /** Loss of disc height against a baseline (positive = lower now), and the flags. */
@@ -179,7 +184,8 @@ export interface SubsidenceSegmentResult {
 export interface SubsidenceResult {
   thresholdMm: number
   source: string
-  segments: Record<SegmentName, SubsidenceSegmentResult>
+  /** Only the segments measured on both readings. */
+  segments: Partial<Record<SegmentName, SubsidenceSegmentResult>>
 }
 
 /** Treatments a plan can record for a segment. */

@@ -39,7 +39,7 @@ describe('cage lordosis', () => {
         [p['cage.L5-S1.inf.p'], p['cage.L5-S1.inf.a']],
         facing,
       )
-      const cage = computeMeasurements(doc).segments['L5-S1'].cageLordosisDeg
+      const cage = computeMeasurements(doc).segments['L5-S1']!.cageLordosisDeg
       expect(cage).toBeCloseTo(expected, 9)
       // The surfaces run along the endplates (shifted by 2 px), so the angle is the 12° disc angle.
       expect(cage).toBeCloseTo(12, 0)
@@ -48,7 +48,7 @@ describe('cage lordosis', () => {
   it('is null without all four cage points', () => {
     const { 'cage.L5-S1.inf.a': _dropped, ...points } = withCage(1).points
     expect(
-      computeMeasurements({ mmPerPixel: 0.139, points }).segments['L5-S1'].cageLordosisDeg,
+      computeMeasurements({ mmPerPixel: 0.139, points }).segments['L5-S1']!.cageLordosisDeg,
     ).toBeNull()
   })
 })
@@ -62,7 +62,7 @@ describe('implant position', () => {
     const as = p['L5.as']!
     const marker: Xy = [ps[0] + 0.4 * (as[0] - ps[0]), ps[1] + 0.4 * (as[1] - ps[1]) - 30]
     const lifted = { ...doc, points: { ...p, 'implant.L4-L5.marker': marker } }
-    const segment = computeMeasurements(lifted).segments['L4-L5']
+    const segment = computeMeasurements(lifted).segments['L4-L5']!
     // The 30 px lift is along −y, not the endplate normal, so it moves the projection slightly.
     const depth = Math.hypot(as[0] - ps[0], as[1] - ps[1])
     const along =
@@ -80,16 +80,16 @@ describe('computeSubsidence', () => {
       posteriorDiscHeightsMm: [7, 8, 8.5, 5.5, 7.5],
     })
     const result = computeSubsidence(current, baseline)
-    const segment = result.segments['L2-L3']
+    const segment = result.segments['L2-L3']!
     // Point-to-point heights include the constructed −1 mm slip: √(8² + 1²) − √(5.5² + 1²).
     expect(segment.lossMm.posterior).toBeCloseTo(Math.hypot(8, 1) - Math.hypot(5.5, 1), 9)
     expect(segment.posteriorFlagged).toBe(true)
     expect(segment.subsided).toBe(true)
-    expect(result.segments['L3-L4'].subsided).toBe(false)
+    expect(result.segments['L3-L4']!.subsided).toBe(false)
     expect(result.thresholdMm).toBe(2)
     expect(result.source).toMatch(/Rao et al. 2017/)
     expect(
-      computeSubsidence(current, baseline, { thresholdMm: 3 }).segments['L2-L3'].subsided,
+      computeSubsidence(current, baseline, { thresholdMm: 3 }).segments['L2-L3']!.subsided,
     ).toBe(false)
   })
   it('flags a loss of exactly the threshold (≥, Rao et al. 2017)', () => {
@@ -98,13 +98,23 @@ describe('computeSubsidence', () => {
       ...DEFAULT_SHAPE,
       posteriorDiscHeightsMm: [7, 8, 6.5, 8, 7.5],
     })
-    const segment = computeSubsidence(current, baseline).segments['L3-L4']
+    const segment = computeSubsidence(current, baseline).segments['L3-L4']!
     expect(segment.lossMm.posterior).toBeCloseTo(2, 9)
     expect(segment.posteriorFlagged).toBe(true)
   })
+  it('reports only the segments measured on both readings', () => {
+    // A baseline without L5's corners has no L4-L5 or L5-S1 segment (§3): no loss can be formed.
+    const points = Object.fromEntries(
+      Object.entries(baseline.points).filter(([name]) => !name.startsWith('L5.')),
+    )
+    const result = computeSubsidence(constructSpineDocument(), { ...baseline, points })
+    expect(result.segments['L5-S1']).toBeUndefined()
+    expect(result.segments['L4-L5']).toBeUndefined()
+    expect(result.segments['L3-L4']!.lossMm.mean).toBeCloseTo(0, 9)
+  })
   it('is unknown (null) when either film is uncalibrated', () => {
     const { mmPerPixel: _spacing, ...uncalibrated } = baseline
-    const segment = computeSubsidence(uncalibrated, baseline).segments['L4-L5']
+    const segment = computeSubsidence(uncalibrated, baseline).segments['L4-L5']!
     expect(segment.lossMm.mean).toBeNull()
     expect(segment.subsided).toBeNull()
   })

@@ -48,7 +48,7 @@ function intrinsic(result: MeasurementResult, withIncidence = true): number[] {
   const values: (number | null | undefined)[] = [
     result.lumbarLordosisDeg,
     result.distalLordosisDeg,
-    result.segments['L5-S1'].slipAngleDeg,
+    result.segments['L5-S1']!.slipAngleDeg,
   ]
   if (withIncidence) values.push(result.pelvis?.incidenceDeg)
   for (const segment of Object.values(result.segments)) {

@@ -34,7 +34,7 @@ describe('Meyerding grade boundaries', () => {
     [150, 75, 'III'],
     [200, 100, 'IV'],
   ])('grades a slip of exactly %d px = %d %% as %s (upper-inclusive)', (dPx, percent, grade) => {
-    const segment = computeMeasurements(slipDocument(dPx)).segments['L5-S1']
+    const segment = computeMeasurements(slipDocument(dPx)).segments['L5-S1']!
     expect(segment.slipPercent).toBeCloseTo(percent, 10)
     expect(segment.meyerdingGrade).toBe(grade)
   })
@@ -44,11 +44,11 @@ describe('Meyerding grade boundaries', () => {
     [150.2, 'IV'],
     [200.2, 'V'],
   ])('grades 0.1 %% above a boundary (%d px) as %s', (dPx, grade) => {
-    expect(computeMeasurements(slipDocument(dPx)).segments['L5-S1'].meyerdingGrade).toBe(grade)
+    expect(computeMeasurements(slipDocument(dPx)).segments['L5-S1']!.meyerdingGrade).toBe(grade)
   })
   it('gives no grade at 0 % or for a retrolisthesis', () => {
-    expect(computeMeasurements(slipDocument(0)).segments['L5-S1'].meyerdingGrade).toBeNull()
-    expect(computeMeasurements(slipDocument(-30)).segments['L5-S1'].meyerdingGrade).toBeNull()
+    expect(computeMeasurements(slipDocument(0)).segments['L5-S1']!.meyerdingGrade).toBeNull()
+    expect(computeMeasurements(slipDocument(-30)).segments['L5-S1']!.meyerdingGrade).toBeNull()
   })
 })
 
@@ -81,7 +81,7 @@ describe('high-grade slip', () => {
     expect(isHighGradeSlip(50)).toBe(false)
     expect(isHighGradeSlip(50.04)).toBe(false)
     expect(isHighGradeSlip(50.05)).toBe(true)
-    expect(computeMeasurements(slipDocument(100)).segments['L5-S1'].highGrade).toBe(false)
-    expect(computeMeasurements(slipDocument(100.2)).segments['L5-S1'].highGrade).toBe(true)
+    expect(computeMeasurements(slipDocument(100)).segments['L5-S1']!.highGrade).toBe(false)
+    expect(computeMeasurements(slipDocument(100.2)).segments['L5-S1']!.highGrade).toBe(true)
   })
 })

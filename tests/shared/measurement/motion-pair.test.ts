@@ -28,7 +28,7 @@ describe('computeMotionPair', () => {
   )
 
   it('reads ROM as |Δ segmental lordosis| and translation in mm and %', () => {
-    const segment = motion.segments['L5-S1']
+    const segment = motion.segments['L5-S1']!
     // Segmental = disc + wedge (6°): 16 + 6 vs −6 + 6: ROM = 22°. ΔT = 10.5 − 5 = 5.5 mm of 38 mm.
     expect(segment.rangeOfMotionDeg).toBeCloseTo(22, 9)
     expect(segment.translationMm).toBeCloseTo(5.5, 9)
@@ -36,14 +36,14 @@ describe('computeMotionPair', () => {
   })
   it('applies level-specific angulation thresholds: 25° at L5-S1, 20° at L4-L5, 15° above', () => {
     const threshold = (name: 'L5-S1' | 'L4-L5' | 'L1-L2') =>
-      motion.segments[name].criteria.find((c) => c.id === 'white-panjabi-1990')
+      motion.segments[name]!.criteria.find((c) => c.id === 'white-panjabi-1990')
         ?.angulationThresholdDeg
     expect(threshold('L5-S1')).toBe(25)
     expect(threshold('L4-L5')).toBe(20)
     expect(threshold('L1-L2')).toBe(15)
   })
   it('flags L5-S1 under Dupuis (> 10°, > 4 mm) and IDE (> 5 mm) but not White & Panjabi', () => {
-    const byId = Object.fromEntries(motion.segments['L5-S1'].criteria.map((c) => [c.id, c]))
+    const byId = Object.fromEntries(motion.segments['L5-S1']!.criteria.map((c) => [c.id, c]))
     // 22° ≤ 25°, 5.5 mm > 4.5 mm: White & Panjabi flags by translation.
     expect(byId['white-panjabi-1990']?.angulationFlagged).toBe(false)
     expect(byId['white-panjabi-1990']?.translationFlagged).toBe(true)
@@ -55,11 +55,24 @@ describe('computeMotionPair', () => {
   it('leaves mm-based parts unknown (null) when a film is uncalibrated', () => {
     const { mmPerPixel: _spacing, ...uncalibrated } = constructSpineDocument(flexionShape)
     const segment = computeMotionPair(uncalibrated, constructSpineDocument(extensionShape))
-      .segments['L3-L4']
+      .segments['L3-L4']!
     expect(segment.translationMm).toBeNull()
     expect(segment.translationPercent).not.toBeNull()
     const ide = segment.criteria.find((c) => c.id === 'ide-translation-5mm')
     expect(ide?.flagged).toBeNull()
+  })
+  it('reports only the segments measured on both films', () => {
+    // Without L1's corners L1-L2 cannot be measured on the flexion film (§3), so it has no motion.
+    const flexion = constructSpineDocument(flexionShape)
+    const points = Object.fromEntries(
+      Object.entries(flexion.points).filter(([name]) => !name.startsWith('L1.')),
+    )
+    const partial = computeMotionPair(
+      { ...flexion, points },
+      constructSpineDocument(extensionShape),
+    )
+    expect(partial.segments['L1-L2']).toBeUndefined()
+    expect(partial.segments['L5-S1']!.rangeOfMotionDeg).toBeCloseTo(22, 9)
   })
 })
 

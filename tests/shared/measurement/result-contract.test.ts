@@ -1,6 +1,8 @@
 /**
- * The JSON contract of measurement-reference §10: keys always present, null for missing
- * landmarks or calibration, `slipAngleDeg` only at L5-S1 with S1.pw, and never NaN or Infinity.
+ * The JSON contract of measurement-reference §10 and §3: a segment appears only when it can be
+ * computed (U's four corners, W's `as` and `ps`); within it and at the top level keys stay
+ * present with null for missing landmarks or calibration, `slipAngleDeg` only at L5-S1 with
+ * S1.pw, and never NaN or Infinity.
  */
 import { readFileSync } from 'node:fs'
 import { describe, expect, it } from 'vitest'
@@ -35,20 +37,9 @@ function everyNumber(value: unknown): number[] {
 }
 
 describe('computeMeasurements result contract', () => {
-  it('keeps every key present, with nulls, for a document with no points', () => {
+  it('has no segment and every top-level key, with nulls, for a document with no points', () => {
     const result = computeMeasurements({ points: {} })
-    expect(Object.keys(result.segments)).toEqual(['L1-L2', 'L2-L3', 'L3-L4', 'L4-L5', 'L5-S1'])
-    for (const segment of Object.values(result.segments)) {
-      expect(Object.keys(segment)).toEqual(SEGMENT_KEYS)
-      expect(segment.slipPercent).toBeNull()
-      expect(segment.discHeightPx).toEqual({
-        anterior: null,
-        middle: null,
-        posterior: null,
-        mean: null,
-      })
-      expect(segment.discHeightMm).toBeNull()
-    }
+    expect(result.segments).toEqual({})
     expect(result).toMatchObject({
       lumbarLordosisDeg: null,
       distalLordosisDeg: null,
@@ -59,22 +50,39 @@ describe('computeMeasurements result contract', () => {
       calibration: null,
     })
   })
+  it('lists every segment of a full document in cranial order, with every key', () => {
+    const result = computeMeasurements(fixture)
+    expect(Object.keys(result.segments)).toEqual(['L1-L2', 'L2-L3', 'L3-L4', 'L4-L5', 'L5-S1'])
+    for (const segment of Object.values(result.segments)) {
+      expect(Object.keys(segment).filter((key) => key !== 'slipAngleDeg')).toEqual(SEGMENT_KEYS)
+      expect(segment.slipPercent).toEqual(expect.any(Number))
+      // No implant points in the fixture: those values are null, their keys still present.
+      expect(segment.cageLordosisDeg).toBeNull()
+      expect(segment.implantPositionPercent).toBeNull()
+    }
+  })
+  it("keeps a computed segment's mm values null, with their keys, when uncalibrated", () => {
+    const { mmPerPixel: _spacing, ...uncalibrated } = fixture
+    const segment = computeMeasurements(uncalibrated).segments['L4-L5']!
+    expect(segment.slipPx).toEqual(expect.any(Number))
+    expect(segment.slipMm).toBeNull()
+    expect(segment.discHeightMm).toBeNull()
+    expect(segment.discHeightPx.mean).toEqual(expect.any(Number))
+  })
   it('has slipAngleDeg only at L5-S1, and only when S1.pw is given', () => {
     const withWall = computeMeasurements(fixture)
-    expect('slipAngleDeg' in withWall.segments['L5-S1']).toBe(true)
-    expect(typeof withWall.segments['L5-S1'].slipAngleDeg).toBe('number')
-    expect('slipAngleDeg' in withWall.segments['L4-L5']).toBe(false)
+    expect('slipAngleDeg' in withWall.segments['L5-S1']!).toBe(true)
+    expect(typeof withWall.segments['L5-S1']!.slipAngleDeg).toBe('number')
+    expect('slipAngleDeg' in withWall.segments['L4-L5']!).toBe(false)
     const { 'S1.pw': _wall, ...withoutWall } = fixture.points
     expect(
-      'slipAngleDeg' in computeMeasurements({ ...fixture, points: withoutWall }).segments['L5-S1'],
+      'slipAngleDeg' in computeMeasurements({ ...fixture, points: withoutWall }).segments['L5-S1']!,
     ).toBe(false)
-    // With the wall but without L5 the key stays, with null.
+    // With the wall but without L5 there is no L5-S1 segment to carry the slip angle.
     const onlySacrum = {
       points: { 'S1.ps': [0, 0], 'S1.as': [10, 1], 'S1.pw': [-1, 10] },
     } as LandmarkDocument
-    const segment = computeMeasurements(onlySacrum).segments['L5-S1']
-    expect('slipAngleDeg' in segment).toBe(true)
-    expect(segment.slipAngleDeg).toBeNull()
+    expect(computeMeasurements(onlySacrum).segments['L5-S1']).toBeUndefined()
   })
   it('holds no NaN or Infinity for the full fixture, and survives a JSON round trip', () => {
     const result = computeMeasurements(fixture)
@@ -86,12 +94,17 @@ describe('computeMeasurements result contract', () => {
   it('computes a segment only when U has four corners and W has as and ps', () => {
     const { 'L4.ai': _corner, ...missingCorner } = fixture.points
     const result = computeMeasurements({ ...fixture, points: missingCorner })
-    expect(result.segments['L4-L5'].slipPercent).toBeNull()
-    expect(result.segments['L3-L4'].slipPercent).not.toBeNull()
+    expect(result.segments['L4-L5']).toBeUndefined()
+    // L4 is the lower vertebra of L3-L4, which needs only its superior endplate corners.
+    expect(result.segments['L3-L4']!.slipPercent).toEqual(expect.any(Number))
+    const { 'L5.as': _endplate, ...missingEndplate } = fixture.points
+    expect(
+      computeMeasurements({ ...fixture, points: missingEndplate }).segments['L4-L5'],
+    ).toBeUndefined()
   })
   it('leaves segmental lordosis null without the lower vertebra inferior endplate', () => {
     const { 'L5.pi': _pi, 'L5.ai': _ai, ...points } = constructSpineDocument().points
-    const segment = computeMeasurements({ mmPerPixel: 0.139, points }).segments['L4-L5']
+    const segment = computeMeasurements({ mmPerPixel: 0.139, points }).segments['L4-L5']!
     expect(segment.segmentalLordosisDeg).toBeNull()
     expect(segment.discAngleDeg).not.toBeNull()
     expect(segment.slipPercent).not.toBeNull()

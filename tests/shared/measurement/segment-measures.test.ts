@@ -19,18 +19,18 @@ describe('segmental lordosis and disc angle', () => {
   const result = computeMeasurements(doc)
 
   it('equal the constructed disc angle plus the upper wedge at L5-S1 (12° + 6°)', () => {
-    expect(result.segments['L5-S1'].discAngleDeg).toBeCloseTo(DEFAULT_SHAPE.discAnglesDeg[0], 9)
-    expect(result.segments['L5-S1'].segmentalLordosisDeg).toBeCloseTo(12 + 6, 9)
+    expect(result.segments['L5-S1']!.discAngleDeg).toBeCloseTo(DEFAULT_SHAPE.discAnglesDeg[0], 9)
+    expect(result.segments['L5-S1']!.segmentalLordosisDeg).toBeCloseTo(12 + 6, 9)
   })
   it('use the lower vertebra inferior endplate above S1 (Cobb; IJSS definitions [V])', () => {
     // L4-L5: L4 superior to L5 inferior: disc 10° + L4 wedge 2° + L5 wedge 6° = 18°.
     const expected = cobbDeg([p['L4.ps']!, p['L4.as']!], [p['L5.pi']!, p['L5.ai']!], 1)
     expect(expected).toBeCloseTo(10 + 2 + 6, 9)
-    expect(result.segments['L4-L5'].segmentalLordosisDeg).toBeCloseTo(expected, 9)
+    expect(result.segments['L4-L5']!.segmentalLordosisDeg).toBeCloseTo(expected, 9)
   })
   it('read a kyphotic segment as negative', () => {
     const kyphotic = constructSpineDocument({ ...DEFAULT_SHAPE, discAnglesDeg: [12, -9, 8, 6, 5] })
-    const segment = computeMeasurements(kyphotic).segments['L4-L5']
+    const segment = computeMeasurements(kyphotic).segments['L4-L5']!
     expect(segment.discAngleDeg).toBeCloseTo(-9, 9)
     expect(segment.segmentalLordosisDeg).toBeCloseTo(-9 + 2 + 6, 9)
   })
@@ -38,7 +38,7 @@ describe('segmental lordosis and disc angle', () => {
 
 describe('slip', () => {
   it('reads the constructed slip in mm and as % of the lower endplate depth (Taillard [V])', () => {
-    const segment = computeMeasurements(constructSpineDocument()).segments['L5-S1']
+    const segment = computeMeasurements(constructSpineDocument()).segments['L5-S1']!
     expect(segment.slipMm).toBeCloseTo(DEFAULT_SHAPE.slipsMm[0], 9)
     expect(segment.slipPercent).toBeCloseTo((100 * 6) / 38, 9)
     expect(segment.slipPx).toBeCloseTo(6 / 0.139, 9)
@@ -46,7 +46,7 @@ describe('slip', () => {
   it('reads a retrolisthesis as negative with direction "retrolisthesis"', () => {
     const doc = constructSpineDocument({ ...DEFAULT_SHAPE, slipsMm: [-4, 0, 0, 0, 0] })
     const p = doc.points as Record<string, Xy>
-    const segment = computeMeasurements(doc).segments['L5-S1']
+    const segment = computeMeasurements(doc).segments['L5-S1']!
     const expected = taillardSlip(p['S1.ps']!, p['S1.as']!, p['L5.pi']!)
     expect(expected.percent).toBeCloseTo((100 * -4) / 38, 9)
     expect(segment.slipPercent).toBeCloseTo(expected.percent, 9)
@@ -59,7 +59,7 @@ describe('slip', () => {
       slipsMm: [40, 0, 0, 0, 0],
       posteriorDiscHeightsMm: [-8, 8, 8.5, 8, 7.5],
     })
-    const segment = computeMeasurements(doc).segments['L5-S1']
+    const segment = computeMeasurements(doc).segments['L5-S1']!
     expect(segment.slipPercent).toBeCloseTo((100 * 40) / 38, 9)
     expect(segment.meyerdingGrade).toBe('V')
     expect(segment.highGrade).toBe(true)
@@ -78,15 +78,15 @@ describe('slip angle (Boxall et al. 1979 [M])', () => {
         p['L5.ai']!,
         facing,
       )
-      expect(computeMeasurements(doc).segments['L5-S1'].slipAngleDeg).toBeCloseTo(expected, 9)
+      expect(computeMeasurements(doc).segments['L5-S1']!.slipAngleDeg).toBeCloseTo(expected, 9)
     }
   })
   it('is negative for a normal lordotic lumbosacral junction and positive when kyphotic', () => {
     expect(
-      computeMeasurements(constructSpineDocument()).segments['L5-S1'].slipAngleDeg,
+      computeMeasurements(constructSpineDocument()).segments['L5-S1']!.slipAngleDeg,
     ).toBeLessThan(0)
     const kyphotic = constructSpineDocument({ ...DEFAULT_SHAPE, discAnglesDeg: [-20, 10, 8, 6, 5] })
-    expect(computeMeasurements(kyphotic).segments['L5-S1'].slipAngleDeg).toBeGreaterThan(0)
+    expect(computeMeasurements(kyphotic).segments['L5-S1']!.slipAngleDeg).toBeGreaterThan(0)
   })
 })
 
@@ -94,7 +94,7 @@ describe('disc heights', () => {
   it('are point-to-point in px and mm, mean = (anterior + posterior)/2', () => {
     const doc = constructSpineDocument()
     const p = doc.points as Record<string, Xy>
-    const heights = computeMeasurements(doc).segments['L3-L4']
+    const heights = computeMeasurements(doc).segments['L3-L4']!
     const anterior = distance(p['L3.ai']!, p['L4.as']!)
     const posterior = distance(p['L3.pi']!, p['L4.ps']!)
     expect(heights.discHeightPx.anterior).toBeCloseTo(anterior, 9)
@@ -110,15 +110,15 @@ describe('an uncalibrated document', () => {
     const result = computeMeasurements(uncalibrated)
     const calibrated = computeMeasurements(constructSpineDocument())
     for (const name of ['L1-L2', 'L4-L5', 'L5-S1'] as const) {
-      const segment = result.segments[name]
+      const segment = result.segments[name]!
       expect(segment.slipMm).toBeNull()
       expect(segment.discHeightMm).toBeNull()
       expect(segment.slipPercent).toBeCloseTo(
-        calibrated.segments[name].slipPercent ?? Number.NaN,
+        calibrated.segments[name]!.slipPercent ?? Number.NaN,
         9,
       )
       expect(segment.discHeightPx.mean).toBeCloseTo(
-        calibrated.segments[name].discHeightPx.mean ?? Number.NaN,
+        calibrated.segments[name]!.discHeightPx.mean ?? Number.NaN,
         9,
       )
     }
@@ -149,19 +149,19 @@ describe('anisotropic spacing', () => {
       [points['S1.ps']!, points['S1.as']!],
       1,
     )
-    expect(result.segments['L5-S1'].segmentalLordosisDeg).toBeCloseTo(expected, 9)
+    expect(result.segments['L5-S1']!.segmentalLordosisDeg).toBeCloseTo(expected, 9)
     expect(Math.abs(expected - onRawPixels)).toBeGreaterThan(1)
     expect(result.pelvis?.sacralSlopeDeg).toBeCloseTo((Math.atan2(10, 40) * 180) / Math.PI, 9)
   })
   it('takes slip % and mm from mm geometry and disc height px from the pixel grid', () => {
     const slip = taillardSlip(mm['S1.ps']!, mm['S1.as']!, mm['L5.pi']!)
-    expect(result.segments['L5-S1'].slipPercent).toBeCloseTo(slip.percent, 9)
-    expect(result.segments['L5-S1'].slipMm).toBeCloseTo(slip.d, 9)
-    expect(result.segments['L5-S1'].discHeightMm?.anterior).toBeCloseTo(
+    expect(result.segments['L5-S1']!.slipPercent).toBeCloseTo(slip.percent, 9)
+    expect(result.segments['L5-S1']!.slipMm).toBeCloseTo(slip.d, 9)
+    expect(result.segments['L5-S1']!.discHeightMm?.anterior).toBeCloseTo(
       distance(mm['L5.ai']!, mm['S1.as']!),
       9,
     )
-    expect(result.segments['L5-S1'].discHeightPx.anterior).toBeCloseTo(
+    expect(result.segments['L5-S1']!.discHeightPx.anterior).toBeCloseTo(
       distance(points['L5.ai']!, points['S1.as']!),
       9,
     )

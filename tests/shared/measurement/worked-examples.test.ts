@@ -37,13 +37,13 @@ describe('Example 1: simple anterolisthesis facing right', () => {
     // d = (30, −60)·(1, 0) = 30 px; slip = 100·30/300 = 10 %.
     const expected = (100 * 30) / 300
     expect(taillardSlip([1000, 2000], [1300, 2000], [1030, 1940]).percent).toBeCloseTo(expected, 12)
-    const segment = computeMeasurements(doc).segments['L5-S1']
+    const segment = computeMeasurements(doc).segments['L5-S1']!
     expect(segment.slipPercent).toBeCloseTo(expected, 10)
     expect(segment.slipPx).toBeCloseTo(30, 10)
     expect(segment.meyerdingGrade).toBe('I')
   })
   it('leaves mm null without calibration', () => {
-    const segment = computeMeasurements(doc).segments['L5-S1']
+    const segment = computeMeasurements(doc).segments['L5-S1']!
     expect(segment.slipMm).toBeNull()
     expect(segment.discHeightMm).toBeNull()
   })
@@ -63,13 +63,13 @@ describe('Example 2: slips of exactly 25 % and 50 %', () => {
   })
   it('grades 25.0 % as I under the upper-inclusive rule (Meyerding 1932 [M]; 0–25 / 26–50 [V-sec])', () => {
     // 2a: Q = (1050, 1540): d = 50, slip = 100·50/200 = 25.0 %.
-    const segment = computeMeasurements(docWith([1050, 1540])).segments['L4-L5']
+    const segment = computeMeasurements(docWith([1050, 1540])).segments['L4-L5']!
     expect(segment.slipPercent).toBeCloseTo((100 * 50) / 200, 10)
     expect(segment.meyerdingGrade).toBe('I')
   })
   it('grades 50.0 % as II and not high-grade under "> 50 %" (Kasliwal et al. [V])', () => {
     // 2b: Q = (1100, 1540): d = 100, slip = 50.0 %.
-    const segment = computeMeasurements(docWith([1100, 1540])).segments['L4-L5']
+    const segment = computeMeasurements(docWith([1100, 1540])).segments['L4-L5']!
     expect(segment.slipPercent).toBeCloseTo((100 * 100) / 200, 10)
     expect(segment.meyerdingGrade).toBe('II')
     expect(segment.highGrade).toBe(false)
@@ -91,7 +91,7 @@ describe('Example 3: retrolisthesis', () => {
   }
   it('reads −8.0 %, no Meyerding grade, and −2.6 mm at 0.1316 mm/px', () => {
     // d = (−20, −60)·(1, 0) = −20 px; slip = 100·(−20)/250 = −8 %; −20 × 0.1316 = −2.632 mm.
-    const segment = computeMeasurements(doc).segments['L2-L3']
+    const segment = computeMeasurements(doc).segments['L2-L3']!
     expect(segment.slipPercent).toBeCloseTo((100 * -20) / 250, 10)
     expect(segment.slipMm).toBeCloseTo(-20 * 0.1316, 10)
     expect(segment.slipMm).toBeCloseTo(-2.6, 1)
@@ -115,7 +115,7 @@ describe('Example 4: spondyloptosis', () => {
   }
   it('reads 110.0 %, Meyerding V, high-grade', () => {
     // d = 275, L = 250: slip = 100·275/250 = 110 %.
-    const segment = computeMeasurements(doc).segments['L5-S1']
+    const segment = computeMeasurements(doc).segments['L5-S1']!
     expect(segment.slipPercent).toBeCloseTo((100 * 275) / 250, 10)
     expect(segment.meyerdingGrade).toBe('V')
     expect(segment.highGrade).toBe(true)
@@ -134,7 +134,7 @@ describe('Example 5: lordotic L4–L5 segment, disc heights and calibration', ()
     'L5.pi': [1020, 1462] as Xy,
     'L5.ai': [1318, 1498] as Xy,
   }
-  const segment = computeMeasurements({ mmPerPixel: spacing, points: corners }).segments['L4-L5']
+  const segment = computeMeasurements({ mmPerPixel: spacing, points: corners }).segments['L4-L5']!
 
   it('reads segmental lordosis 14.94° and disc angle 9.96° (Cobb; IJSS definitions [V])', () => {
     // θ(L4 sup) = atan2(42, 297) = 8.05°, θ(L5 inf) = atan2(−36, 298) = −6.89°.
@@ -198,7 +198,10 @@ describe('Example 6: kyphotic segment facing left', () => {
     )
     expect(expected).toBeCloseTo(atan2Deg(-30, 300) - atan2Deg(40, 298), 12)
     expect(expected).toBeCloseTo(-13.36, 2)
-    expect(computeMeasurements(doc).segments['L2-L3'].segmentalLordosisDeg).toBeCloseTo(expected, 9)
+    expect(computeMeasurements(doc).segments['L2-L3']!.segmentalLordosisDeg).toBeCloseTo(
+      expected,
+      9,
+    )
   })
   it('does not fall into the wrong-facing trap that reads +13.36°', () => {
     const wrongFacing = cobbDeg(
@@ -213,7 +216,7 @@ describe('Example 6: kyphotic segment facing left', () => {
       1,
     )
     expect(wrongFacing).toBeCloseTo(13.36, 2)
-    expect(computeMeasurements(doc).segments['L2-L3'].segmentalLordosisDeg).toBeLessThan(0)
+    expect(computeMeasurements(doc).segments['L2-L3']!.segmentalLordosisDeg).toBeLessThan(0)
   })
 })
 
@@ -300,11 +303,11 @@ describe('Example 9: tilted S1 endplate, where the naive Δx method is wrong', (
     // e = (240, 70)/250 = (0.96, 0.28); d = (103, 4)·e = 98.88 + 1.12 = 100 px; 100/250 = 40 %.
     const d = 103 * 0.96 + 4 * 0.28
     const result = computeMeasurements(doc)
-    expect(result.segments['L5-S1'].slipPercent).toBeCloseTo((100 * d) / 250, 9)
-    expect(result.segments['L5-S1'].meyerdingGrade).toBe('II')
+    expect(result.segments['L5-S1']!.slipPercent).toBeCloseTo((100 * d) / 250, 9)
+    expect(result.segments['L5-S1']!.meyerdingGrade).toBe('II')
     expect(result.pelvis?.sacralSlopeDeg).toBeCloseTo(atan2Deg(70, 240), 9)
     // The naive readings 103/240 = 42.9 % and 103/250 = 41.2 % are not what is reported.
-    expect(result.segments['L5-S1'].slipPercent).not.toBeCloseTo((100 * 103) / 240, 1)
+    expect(result.segments['L5-S1']!.slipPercent).not.toBeCloseTo((100 * 103) / 240, 1)
   })
 })
 
@@ -333,7 +336,7 @@ describe('Example 10: flexion/extension translation and ROM at L4–L5', () => {
     // 31.5/270 = 11.67 % of the 36.0 mm endplate.
     const extAngle = atan2Deg(1100 - 1048, 295) - atan2Deg(1700 - 1742, 297) // 18.05°
     const flexAngle = atan2Deg(1120 - 1130, 300) - atan2Deg(1700 - 1731, 298) // 4.03°
-    const motion = computeMotionPair(flexion, extension).segments['L4-L5']
+    const motion = computeMotionPair(flexion, extension).segments['L4-L5']!
     expect(motion.translationMm).toBeCloseTo((39 - 7.5) * spacing, 9)
     expect(motion.translationMm).toBeCloseTo(4.2, 6)
     expect(motion.translationPercent).toBeCloseTo((100 * (39 - 7.5)) / 270, 9)
@@ -341,7 +344,7 @@ describe('Example 10: flexion/extension translation and ROM at L4–L5', () => {
     expect(motion.rangeOfMotionDeg).toBeCloseTo(14.02, 2)
   })
   it('reports which criteria flag: White & Panjabi no, Dupuis yes, IDE 5 mm no', () => {
-    const criteria = computeMotionPair(flexion, extension).segments['L4-L5'].criteria
+    const criteria = computeMotionPair(flexion, extension).segments['L4-L5']!.criteria
     const byId = Object.fromEntries(criteria.map((criterion) => [criterion.id, criterion]))
     // White & Panjabi 1990 [M]: 4.2 ≤ 4.5 mm, 11.7 ≤ 15 %, 14.02 ≤ 20° at L4–L5.
     expect(byId['white-panjabi-1990']?.flagged).toBe(false)
@@ -386,7 +389,7 @@ describe('Example 11: disc replacement sagittal position', () => {
   }
   it('reads 45 % of the depth from the posterior edge and −2.0 mm from the midpoint [D]', () => {
     // r = 135/300 = 0.45; offset = (0.45 − 0.5) × 300 px × 0.13333 mm/px = −2.0 mm.
-    const segment = computeMeasurements(doc).segments['L4-L5']
+    const segment = computeMeasurements(doc).segments['L4-L5']!
     expect(segment.implantPositionPercent).toBeCloseTo((100 * 135) / 300, 9)
     expect(segment.implantOffsetMm).toBeCloseTo(
       (135 / 300 - 0.5) * distance([1000, 1500], [1300, 1500]) * spacing,

@@ -11,8 +11,8 @@ describe('computeMeasurements on the phantom presets', () => {
     const { params, landmarks } = phantomGroundTruth(PHANTOM_PRESETS[name])
     const result = computeMeasurements(landmarks)
     for (const segment of SPINE_SEGMENTS) {
-      const asked = params.segments[segment]
-      const measured = result.segments[segment]
+      const asked = params.segments[segment]!
+      const measured = result.segments[segment]!
       expect(measured.slipPercent).toBeCloseTo(asked.slipPercent, 6)
       expect(measured.segmentalLordosisDeg).toBeCloseTo(asked.segmentalAngleDeg, 6)
     }
@@ -25,7 +25,7 @@ describe('computeMeasurements on the phantom presets', () => {
     // A cage filling the disc space has the disc's angle (reference §7); a disc replacement's
     // marker sits at the position asked for.
     const implantChecks = params.implants.map((implant) => {
-      const measured = result.segments[implant.segment]
+      const measured = result.segments[implant.segment]!
       return implant.kind === 'cage'
         ? [measured.cageLordosisDeg, measured.discAngleDeg]
         : [measured.implantPositionPercent, implant.positionPercent]
@@ -38,8 +38,8 @@ describe('computeMeasurements on the phantom presets', () => {
   it('reads the posterior disc height in mm of a segment without slip (point to point = perpendicular)', () => {
     const { params, landmarks } = phantomGroundTruth(PHANTOM_PRESETS.normal)
     const result = computeMeasurements(landmarks)
-    expect(result.segments['L3-L4'].discHeightMm?.posterior).toBeCloseTo(
-      params.segments['L3-L4'].posteriorDiscHeightMm,
+    expect(result.segments['L3-L4']!.discHeightMm?.posterior).toBeCloseTo(
+      params.segments['L3-L4']!.posteriorDiscHeightMm,
       6,
     )
   })
