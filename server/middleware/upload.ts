@@ -52,7 +52,6 @@ function hashingDiskStorage(tmpDir: string): StorageEngine {
 /** Keeps a display name only: no folders, no control characters, at most 255 characters. */
 export function safeDisplayName(name: string): string {
   const base = name.split(/[\\/]/).pop() ?? ''
-  // eslint-disable-next-line no-control-regex
   const cleaned = base.replace(/[\u0000-\u001f\u007f]/g, '').trim()
   return cleaned.slice(0, 255) || 'unnamed'
 }

@@ -47,6 +47,13 @@ function keysFor(hash: string, kind: FileKind, renditions: FilmRenditions) {
   }
 }
 
+const FIELD_WORDS: Record<PatientMismatch['differences'][number]['field'], string> = {
+  name: 'name',
+  id: 'patient ID',
+  birthDate: 'birth date',
+  studyDate: 'study date',
+}
+
 const identifies = (actor: Actor) => roleCan(actor.user.role, 'patient:identify')
 
 export interface UploadRequest {
@@ -110,7 +117,7 @@ export async function uploadImages(db: Db, store: FileStore, actor: Actor, visit
     }
     if (mismatches.length > 0 && !request.confirmPatientMismatch) {
       throw new HttpError(409, 'patient_mismatch', 'The DICOM header does not match this visit\'s patient. Check the film, then confirm to attach it anyway.', {
-        mismatches: mismatches.map((m) => `${m.file}: ${m.differences.map((d) => `${d.field} is "${d.inFile}" in the file, "${d.onRecord}" on record`).join('; ')}`),
+        mismatches: mismatches.flatMap((m) => m.differences.map((d) => `${m.file}: ${FIELD_WORDS[d.field]} is "${d.inFile}" in the file, "${d.onRecord}" on record`)),
       })
     }
     const written: string[] = []

@@ -27,3 +27,28 @@ export function formatInterval(months: number | null): string {
   if (months > 0 && months % 12 === 0) return months === 12 ? '1 year' : `${months / 12} years`
   return months === 1 ? '1 month' : `${months} months`
 }
+
+export const IMAGE_VIEW_LABELS: Record<import('@shared/types/domain').ImageView, string> = {
+  'lateral-neutral': 'Lateral, neutral',
+  'lateral-flexion': 'Lateral, flexion',
+  'lateral-extension': 'Lateral, extension',
+  'lateral-standing-long': 'Lateral, standing long',
+  ap: 'AP',
+}
+
+/** Where a film's millimetre scale comes from, in words a reader can weigh. */
+export const SPACING_SOURCE_LABELS: Record<import('@shared/types/domain').SpacingSource, string> = {
+  'dicom-pixel-spacing': 'Calibrated in the patient (DICOM Pixel Spacing)',
+  manual: 'Manual calibration on the film',
+  'dicom-imager-spacing-magnification': 'Estimated (detector spacing ÷ magnification factor)',
+  'dicom-imager-spacing': 'At the detector, magnified (typically 10–25 %)',
+  none: 'Not calibrated: angles and percentages only',
+}
+
+export const SPACING_SOURCE_SHORT: Record<import('@shared/types/domain').SpacingSource, string> = {
+  'dicom-pixel-spacing': 'calibrated',
+  manual: 'manual',
+  'dicom-imager-spacing-magnification': 'estimated',
+  'dicom-imager-spacing': 'detector',
+  none: 'uncalibrated',
+}

@@ -83,7 +83,8 @@ describe('POST /api/visits/:id/images', () => {
       expect(file.headers['cache-control']).toBe('private, max-age=31536000, immutable')
       const meta = await sharp(file.body as Buffer).metadata()
       expect(Math.max(meta.width ?? 0, meta.height ?? 0)).toBe(maxSide)
-      if (name === 'full-depth') expect(meta.depth).toBe('ushort')
+      // Only the full-depth rendition keeps 16 bits per sample for window/level in the client.
+      expect(meta.depth).toBe(name === 'full-depth' ? 'ushort' : 'uchar')
     }
     const stored = filesOnDisk()
     expect(stored.some((path) => path.endsWith('original.dcm') && path.includes(image.contentHash))).toBe(true)
