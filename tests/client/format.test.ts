@@ -32,3 +32,16 @@ describe('validatePatientForm', () => {
     })
   })
 })
+
+describe('fieldErrorsFrom', () => {
+  it('keeps one message per field without the field prefix the API adds', async () => {
+    const { ApiError } = await import('@/api/http')
+    const { fieldErrorsFrom, formErrorFrom } = await import('@/utils/form-errors')
+    const error = new ApiError(400, 'validation_failed', 'birthDate: cannot be in the future', {
+      birthDate: ['birthDate: cannot be in the future', 'birthDate: must be after 1900'],
+    })
+    expect(fieldErrorsFrom(error)).toEqual({ birthDate: 'cannot be in the future' })
+    expect(fieldErrorsFrom(new Error('x'))).toEqual({})
+    expect(formErrorFrom(error)).toBe('birthDate: cannot be in the future')
+  })
+})
