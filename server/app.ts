@@ -20,6 +20,7 @@ import { usersRouter } from './routes/users'
 import { auditEventsRouter } from './routes/audit-events'
 import { measurementsRouter } from './routes/measurements'
 import { imagesRouter } from './routes/images'
+import { readingsRouter } from './routes/readings'
 import { createLocalFileStore } from './storage/local-file-store'
 import type { FileStore } from './storage/file-store'
 import { projectRoot } from './project-root'
@@ -85,6 +86,7 @@ export function createApp({ db, config, logger, clientDir = join(projectRoot, 'd
   api.use('/patients', patientsRouter(db))
   api.use('/visits', visitsRouter(db, { store, uploadTmpDir: join(config.uploadDirAbsolute, 'tmp'), uploadMaxMb: config.UPLOAD_MAX_MB }))
   api.use('/images', imagesRouter(db, store))
+  api.use(readingsRouter(db))
   api.use('/users', usersRouter(db))
   api.use('/audit-events', auditEventsRouter(db))
   api.use('/measurements', measurementsRouter())

@@ -7,6 +7,7 @@ import type { Role } from '../../shared/types/domain'
 import { openTestDb, truncateAll } from '../support/test-db'
 import { buildTestApp, createUsersForEveryRole, type TestUser } from '../support/test-app'
 import { insertStudyWith, insertTestPatient, insertTestVisit } from '../support/fixtures'
+import { insertImage } from '../../server/db/images'
 
 type Who = Role | 'anonymous'
 
@@ -14,14 +15,19 @@ interface RouteCase {
   method: 'get' | 'post' | 'patch'
   path: (ids: Ids) => string
   body?: (ids: Ids, n: number) => object
+  /** The version a versioned write sends; patches default to the patient's or visit's. */
+  version?: (ids: Ids) => Promise<number>
   expect: Record<Who, number>
 }
 
 interface Ids {
   patientId: number
   visitId: number
+  imageId: number
+  readingId: number
   patientVersion: () => Promise<number>
   visitVersion: () => Promise<number>
+  readingVersion: () => Promise<number>
 }
 
 let n = 0
@@ -44,6 +50,12 @@ const ROUTES: RouteCase[] = [
   { method: 'post', path: (ids) => `/api/patients/${ids.patientId}/visits`, body: () => ({ visitDate: '2026-01-05', visitKind: 'pre-op' }), expect: { anonymous: 401, admin: 403, surgeon: 201, fellow: 201, researcher: 403 } },
   { method: 'get', path: (ids) => `/api/visits/${ids.visitId}`, expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 } },
   { method: 'patch', path: (ids) => `/api/visits/${ids.visitId}`, body: () => ({ indication: 'matrix' }), expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 403 } },
+  // Readings: the fellow started the reading, so only the fellow may edit or submit it.
+  { method: 'post', path: (ids) => `/api/images/${ids.imageId}/readings`, body: () => ({ template: 'slip-grade', options: { segment: 'L5-S1' } }), expect: { anonymous: 401, admin: 403, surgeon: 201, fellow: 201, researcher: 403 } },
+  { method: 'get', path: (ids) => `/api/images/${ids.imageId}/readings`, expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 } },
+  { method: 'get', path: (ids) => `/api/readings/${ids.readingId}`, expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 } },
+  { method: 'patch', path: (ids) => `/api/readings/${ids.readingId}`, body: () => ({ points: { 'L5.as': [10, 10] } }), version: (ids) => ids.readingVersion(), expect: { anonymous: 401, admin: 403, surgeon: 403, fellow: 200, researcher: 403 } },
+  { method: 'post', path: (ids) => `/api/readings/${ids.readingId}/submit`, body: () => ({}), version: (ids) => ids.readingVersion(), expect: { anonymous: 401, admin: 403, surgeon: 403, fellow: 200, researcher: 403 } },
   { method: 'get', path: () => '/api/users', expect: { anonymous: 401, admin: 200, surgeon: 403, fellow: 403, researcher: 403 } },
   { method: 'get', path: () => '/api/audit-events', expect: { anonymous: 401, admin: 200, surgeon: 403, fellow: 403, researcher: 403 } },
   { method: 'get', path: () => '/api/no-such-route', expect: { anonymous: 401, admin: 404, surgeon: 404, fellow: 404, researcher: 404 } },
@@ -68,21 +80,37 @@ beforeEach(async () => {
   const patientId = await insertTestPatient(db, users.fellow.id)
   const visitId = await insertTestVisit(db, patientId, users.fellow.id)
   await insertStudyWith(db, users.researcher.id, [patientId])
+  // A film row without files (the reading routes never open the image) and a draft by the fellow.
+  const imageId = await insertImage(db, {
+    visitId, view: 'lateral-neutral', fileKind: 'png', contentHash: 'f'.repeat(64),
+    originalPath: 'films/ff/matrix/original.png', displayPath: 'films/ff/matrix/display.png', previewPath: 'films/ff/matrix/preview.png',
+    thumbnailPath: 'films/ff/matrix/thumbnail.png', fullDepthPath: 'films/ff/matrix/full-depth.png', originalName: 'matrix.png',
+    sizeBytes: 1, width: 100, height: 100, bitsStored: 8, mmPerPixelRow: null, mmPerPixelColumn: null, spacingSource: 'none',
+    spacingNote: null, windowCenter: null, windowWidth: null, acquiredAt: null, dicomAttributes: null, uploadedBy: users.fellow.id,
+  })
+  const reading = await request(app).post(`/api/images/${imageId}/readings`).set('Cookie', users.fellow.cookie)
+    .send({ template: 'slip-grade', options: { segment: 'L5-S1' }, points: { 'S1.ps': [40, 60] } })
+  if (reading.status !== 201) throw new Error(`could not start the matrix reading: ${JSON.stringify(reading.body)}`)
+  const readingId = reading.body.id as number
   ids = {
     patientId,
     visitId,
+    imageId,
+    readingId,
     patientVersion: async () => (await db('patients').where({ id: patientId }).first()).version,
     visitVersion: async () => (await db('visits').where({ id: visitId }).first()).version,
+    readingVersion: async () => (await db('readings').where({ id: readingId }).first()).version,
   }
 })
 
 describe('role × route matrix', () => {
   for (const route of ROUTES) {
-    it(`${route.method.toUpperCase()} ${route.path({ patientId: 1, visitId: 1 } as Ids).replace(/\/1(\/|$)/g, '/:id$1')} answers each role as designed`, async () => {
+    it(`${route.method.toUpperCase()} ${route.path({ patientId: 1, visitId: 1, imageId: 1, readingId: 1 } as Ids).replace(/\/1(\/|$)/g, '/:id$1')} answers each role as designed`, async () => {
       const seen: Record<string, number> = {}
       for (const who of Object.keys(route.expect) as Who[]) {
         let body = route.body?.(ids, n)
-        if (route.method === 'patch' && body) {
+        if (route.version && body) body = { ...body, version: await route.version(ids) }
+        else if (route.method === 'patch' && body) {
           body = { ...body, version: route.path(ids).includes('/visits/') ? await ids.visitVersion() : await ids.patientVersion() }
         }
         const call = request(app)[route.method](route.path(ids))

@@ -1,0 +1,229 @@
+import type { Db } from './knex'
+import { TABLES } from './tables'
+import { toBoolean, toIsoDateTime, toIsoDateTimeOrNull } from './rows'
+import type { ReadingStatus, ReadingTemplate } from '../../shared/types/domain'
+import type { LandmarkDocument } from '../../shared/types/landmarks'
+import type { ReadingCalibration, ReadingResults } from '../../shared/types/readings'
+import type { TemplateOptions } from '../../shared/readings/templates'
+
+export interface ReadingRecord {
+  id: number
+  imageId: number
+  pairedImageId: number | null
+  raterId: number
+  raterName: string
+  template: ReadingTemplate
+  options: TemplateOptions
+  landmarks: LandmarkDocument
+  pairedLandmarks: LandmarkDocument | null
+  calibration: ReadingCalibration
+  pairedCalibration: ReadingCalibration | null
+  results: ReadingResults
+  engineVersion: string
+  status: ReadingStatus
+  version: number
+  blinded: boolean
+  supersedesId: number | null
+  supersedeReason: string | null
+  submittedAt: string | null
+  signedAt: string | null
+  signedBy: number | null
+  createdAt: string
+  updatedAt: string
+}
+
+type RawRow = Record<string, unknown>
+
+function parseJson<T>(value: unknown): T | null {
+  if (value === null || value === undefined) return null
+  return (typeof value === 'string' ? JSON.parse(value) : value) as T
+}
+
+const COLUMNS = [
+  'r.id',
+  'r.image_id',
+  'r.paired_image_id',
+  'r.rater_id',
+  'u.display_name as rater_name',
+  'r.template',
+  'r.template_options',
+  'r.landmarks',
+  'r.paired_landmarks',
+  'r.calibration',
+  'r.paired_calibration',
+  'r.results',
+  'r.engine_version',
+  'r.status',
+  'r.version',
+  'r.blinded',
+  'r.supersedes_id',
+  'r.supersede_reason',
+  'r.submitted_at',
+  'r.signed_at',
+  'r.signed_by',
+  'r.created_at',
+  'r.updated_at',
+]
+
+function toReading(row: RawRow): ReadingRecord {
+  return {
+    id: row.id as number,
+    imageId: row.image_id as number,
+    pairedImageId: row.paired_image_id as number | null,
+    raterId: row.rater_id as number,
+    raterName: row.rater_name as string,
+    template: row.template as ReadingTemplate,
+    options: parseJson<TemplateOptions>(row.template_options) ?? {},
+    landmarks: parseJson<LandmarkDocument>(row.landmarks) ?? { points: {} },
+    pairedLandmarks: parseJson<LandmarkDocument>(row.paired_landmarks),
+    calibration: parseJson<ReadingCalibration>(row.calibration) ?? {
+      mmPerPixel: null,
+      source: 'none',
+    },
+    pairedCalibration: parseJson<ReadingCalibration>(row.paired_calibration),
+    results: parseJson<ReadingResults>(row.results) as ReadingResults,
+    engineVersion: row.engine_version as string,
+    status: row.status as ReadingStatus,
+    version: row.version as number,
+    blinded: toBoolean(row.blinded as number),
+    supersedesId: row.supersedes_id as number | null,
+    supersedeReason: row.supersede_reason as string | null,
+    submittedAt: toIsoDateTimeOrNull(row.submitted_at as Date | null),
+    signedAt: toIsoDateTimeOrNull(row.signed_at as Date | null),
+    signedBy: row.signed_by as number | null,
+    createdAt: toIsoDateTime(row.created_at as Date),
+    updatedAt: toIsoDateTime(row.updated_at as Date),
+  }
+}
+
+const withRater = (db: Db) =>
+  db(`${TABLES.readings} as r`).join(`${TABLES.users} as u`, 'u.id', 'r.rater_id')
+
+export async function findReading(db: Db, id: number): Promise<ReadingRecord | undefined> {
+  if (!Number.isSafeInteger(id)) return undefined
+  const row = (await withRater(db).select(COLUMNS).where('r.id', id).first()) as RawRow | undefined
+  return row ? toReading(row) : undefined
+}
+
+/** Readings of a film (as the first film or as the paired one), newest first. */
+export async function listReadingsOfImage(db: Db, imageId: number): Promise<ReadingRecord[]> {
+  const rows = (await withRater(db)
+    .select(COLUMNS)
+    .where((query) => query.where('r.image_id', imageId).orWhere('r.paired_image_id', imageId))
+    .orderBy([
+      { column: 'r.created_at', order: 'desc' },
+      { column: 'r.id', order: 'desc' },
+    ])) as RawRow[]
+  return rows.map(toReading)
+}
+
+/** What a save writes: the landmarks and everything computed from them. */
+export interface ReadingComputation {
+  landmarks: LandmarkDocument
+  pairedLandmarks: LandmarkDocument | null
+  calibration: ReadingCalibration
+  pairedCalibration: ReadingCalibration | null
+  results: ReadingResults
+  engineVersion: string
+}
+
+export interface NewReading extends ReadingComputation {
+  imageId: number
+  pairedImageId: number | null
+  raterId: number
+  template: ReadingTemplate
+  options: TemplateOptions
+}
+
+function computationColumns(computation: ReadingComputation) {
+  return {
+    landmarks: JSON.stringify(computation.landmarks),
+    paired_landmarks: computation.pairedLandmarks
+      ? JSON.stringify(computation.pairedLandmarks)
+      : null,
+    calibration: JSON.stringify(computation.calibration),
+    paired_calibration: computation.pairedCalibration
+      ? JSON.stringify(computation.pairedCalibration)
+      : null,
+    results: JSON.stringify(computation.results),
+    engine_version: computation.engineVersion,
+  }
+}
+
+export async function insertReading(db: Db, reading: NewReading): Promise<number> {
+  const [id] = await db(TABLES.readings).insert({
+    image_id: reading.imageId,
+    paired_image_id: reading.pairedImageId,
+    rater_id: reading.raterId,
+    template: reading.template,
+    segment: reading.options.segment ?? null,
+    template_options: JSON.stringify(reading.options),
+    ...computationColumns(reading),
+  })
+  return id as number
+}
+
+/** Saves a draft only if nobody saved it since `expectedVersion`; false otherwise. */
+export async function updateDraftReading(
+  db: Db,
+  id: number,
+  expectedVersion: number,
+  computation: ReadingComputation,
+): Promise<boolean> {
+  const changed = await db(TABLES.readings)
+    .where({ id, version: expectedVersion, status: 'draft' })
+    .update({
+      ...computationColumns(computation),
+      version: db.raw('version + 1'),
+      updated_at: new Date(),
+    })
+  return changed === 1
+}
+
+/** Moves a draft to submitted with its final computation, under the same version guard. */
+export async function submitDraftReading(
+  db: Db,
+  id: number,
+  expectedVersion: number,
+  computation: ReadingComputation,
+): Promise<boolean> {
+  const now = new Date()
+  const changed = await db(TABLES.readings)
+    .where({ id, version: expectedVersion, status: 'draft' })
+    .update({
+      ...computationColumns(computation),
+      status: 'submitted',
+      submitted_at: now,
+      version: db.raw('version + 1'),
+      updated_at: now,
+    })
+  return changed === 1
+}
+
+/**
+ * The subsidence baseline of a patient: the earliest submitted or signed construct-check reading
+ * on a post-op visit (by visit date, then by when it was submitted), other than `exceptId`, and
+ * not from a visit after `onOrBefore` (a baseline cannot come later than the film it is for).
+ */
+export async function findConstructBaseline(
+  db: Db,
+  patientId: number,
+  exceptId: number | null,
+  onOrBefore: string,
+): Promise<ReadingRecord | undefined> {
+  const query = withRater(db)
+    .join(`${TABLES.images} as i`, 'i.id', 'r.image_id')
+    .join(`${TABLES.visits} as v`, 'v.id', 'i.visit_id')
+    .select(COLUMNS)
+    .where({ 'v.patient_id': patientId, 'v.kind': 'post-op', 'r.template': 'construct-check' })
+    .whereIn('r.status', ['submitted', 'signed'])
+    .where('v.visit_date', '<=', onOrBefore)
+    .orderBy([
+      { column: 'v.visit_date', order: 'asc' },
+      { column: 'r.submitted_at', order: 'asc' },
+      { column: 'r.id', order: 'asc' },
+    ])
+  if (exceptId !== null) query.whereNot('r.id', exceptId)
+  const row = (await query.first()) as RawRow | undefined
+  return row ? toReading(row) : undefined
+}

@@ -1,0 +1,80 @@
+import { Router, type ErrorRequestHandler } from 'express'
+import type { Db } from '../db/knex'
+import { validate } from '../middleware/validate'
+import { requirePermission } from '../middleware/require-permission'
+import { idParam } from '../schemas/common'
+import { createReadingBody, patchReadingBody, submitReadingBody } from '../schemas/readings'
+import {
+  createReading,
+  getReading,
+  listImageReadings,
+  patchReading,
+  ReadingConflictError,
+  submitReading,
+} from '../services/readings'
+import { actorOf } from './actor'
+
+/** A version conflict answers the usual error body plus the reading as it now stands. */
+const conflictWithCurrent: ErrorRequestHandler = (error, _req, res, next) => {
+  if (!(error instanceof ReadingConflictError)) return next(error)
+  res.status(409).json({
+    error: { code: error.code, message: error.message, details: error.details },
+    current: error.current,
+  })
+}
+
+/** Mounted at /api: readings live under /readings, and a film's readings under /images/:id. */
+export function readingsRouter(db: Db): Router {
+  const router = Router()
+
+  router.post(
+    '/images/:id/readings',
+    requirePermission('reading:write'),
+    validate('params', idParam),
+    validate('body', createReadingBody),
+    async (req, res) => {
+      res.status(201).json(await createReading(db, actorOf(req), res.locals.params.id, req.body))
+    },
+  )
+
+  router.get(
+    '/images/:id/readings',
+    requirePermission('patient:read'),
+    validate('params', idParam),
+    async (req, res) => {
+      res.json(await listImageReadings(db, actorOf(req), res.locals.params.id))
+    },
+  )
+
+  router.get(
+    '/readings/:id',
+    requirePermission('patient:read'),
+    validate('params', idParam),
+    async (req, res) => {
+      res.json(await getReading(db, actorOf(req), res.locals.params.id))
+    },
+  )
+
+  router.patch(
+    '/readings/:id',
+    requirePermission('reading:write'),
+    validate('params', idParam),
+    validate('body', patchReadingBody),
+    async (req, res) => {
+      res.json(await patchReading(db, actorOf(req), res.locals.params.id, req.body))
+    },
+  )
+
+  router.post(
+    '/readings/:id/submit',
+    requirePermission('reading:write'),
+    validate('params', idParam),
+    validate('body', submitReadingBody),
+    async (req, res) => {
+      res.json(await submitReading(db, actorOf(req), res.locals.params.id, req.body.version))
+    },
+  )
+
+  router.use(conflictWithCurrent)
+  return router
+}

@@ -1,0 +1,125 @@
+import { z } from 'zod'
+import { MOTION_SEGMENTS, READING_TEMPLATES, type ReadingTemplate } from '../../shared/types/domain'
+import type { CreateReadingInput, PatchReadingInput } from '../../shared/types/readings'
+import type { TemplateOptions } from '../../shared/readings/templates'
+import { version } from './common'
+
+const coordinate = z
+  .number({ error: 'must be a number of pixels' })
+  .finite('must be a finite number')
+const point = z.tuple([coordinate, coordinate], { error: 'must be [x, y] in image pixels' })
+
+/** Landmark name → [x, y]; names are checked against the template by the service. */
+const points = z
+  .record(
+    z
+      .string()
+      .min(1, 'a landmark name cannot be empty')
+      .max(40, 'a landmark name is at most 40 characters'),
+    point,
+    {
+      error: 'must be an object of landmark name → [x, y]',
+    },
+  )
+  .refine((value) => Object.keys(value).length <= 120, 'holds at most 120 landmarks')
+
+const segment = z.enum(MOTION_SEGMENTS, { error: `must be one of ${MOTION_SEGMENTS.join(', ')}` })
+
+const options = z.strictObject({
+  segment: segment.optional(),
+  construct: z
+    .array(
+      z.strictObject({
+        segment,
+        implant: z.enum(['cage', 'disc-replacement'], {
+          error: 'must be cage or disc-replacement',
+        }),
+      }),
+      { error: 'must be a list of { segment, implant }' },
+    )
+    .optional(),
+}) satisfies z.ZodType<TemplateOptions>
+
+/** Which options each template takes; anything else is refused rather than silently ignored. */
+function checkOptions(
+  template: ReadingTemplate,
+  value: TemplateOptions,
+  ctx: z.RefinementCtx,
+): void {
+  const issue = (path: string[], message: string) =>
+    ctx.addIssue({ code: 'custom', path: ['options', ...path], message })
+  if (template === 'slip-grade' || template === 'motion-pair') {
+    if (value.segment === undefined)
+      issue(
+        ['segment'],
+        `is required for the ${template} template (one of ${MOTION_SEGMENTS.join(', ')})`,
+      )
+    if (value.construct !== undefined)
+      issue(['construct'], `does not apply to the ${template} template`)
+  }
+  if (template === 'construct-check') {
+    if (value.segment !== undefined)
+      issue(
+        ['segment'],
+        'does not apply to the construct-check template; list the treated segments in construct',
+      )
+    if (value.construct === undefined || value.construct.length === 0) {
+      issue(
+        ['construct'],
+        'must list at least one treated segment and its implant for the construct-check template',
+      )
+    } else {
+      const seen = new Set<string>()
+      for (const [index, entry] of value.construct.entries()) {
+        if (seen.has(entry.segment))
+          issue(['construct', String(index), 'segment'], `lists ${entry.segment} twice`)
+        seen.add(entry.segment)
+      }
+    }
+  }
+  if (template === 'lumbar-alignment') {
+    if (value.segment !== undefined)
+      issue(['segment'], 'does not apply to the lumbar-alignment template')
+    if (value.construct !== undefined)
+      issue(['construct'], 'does not apply to the lumbar-alignment template')
+  }
+}
+
+export const createReadingBody = z
+  .strictObject({
+    template: z.enum(READING_TEMPLATES, {
+      error: `must be one of ${READING_TEMPLATES.join(', ')}`,
+    }),
+    options: options.optional(),
+    pairedImageId: z
+      .number({ error: 'must be the id of the extension film' })
+      .int()
+      .positive()
+      .optional(),
+    points: points.optional(),
+  })
+  .superRefine((value, ctx) => {
+    checkOptions(value.template, value.options ?? {}, ctx)
+    if (value.template === 'motion-pair' && value.pairedImageId === undefined) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['pairedImageId'],
+        message: 'is required for a motion pair: the extension film of the same visit',
+      })
+    }
+    if (value.template !== 'motion-pair' && value.pairedImageId !== undefined) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['pairedImageId'],
+        message: 'applies to the motion-pair template only',
+      })
+    }
+  }) satisfies z.ZodType<CreateReadingInput>
+
+export const patchReadingBody = z.strictObject({
+  points,
+  pairedPoints: points.optional(),
+  version,
+}) satisfies z.ZodType<PatchReadingInput>
+
+export const submitReadingBody = z.strictObject({ version })

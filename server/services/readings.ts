@@ -1,0 +1,370 @@
+import type { Db } from '../db/knex'
+import { findImage, type ImageRow } from '../db/images'
+import { findVisit } from '../db/visits'
+import {
+  findConstructBaseline,
+  findReading,
+  insertReading,
+  listReadingsOfImage,
+  submitDraftReading,
+  updateDraftReading,
+  type ReadingComputation,
+  type ReadingRecord,
+} from '../db/readings'
+import { findSiteSetting } from '../db/site-settings'
+import { badRequest, forbidden, HttpError, notFound } from '../errors'
+import { APP_VERSION } from '../version'
+import {
+  DEFAULT_SIGMA_MM,
+  DEFAULT_SUBSIDENCE_THRESHOLD_MM,
+  LandmarkDocumentError,
+} from '../../shared/measurement/index'
+import {
+  templateLandmarks,
+  TEMPLATE_LABELS,
+  type TemplateOptions,
+} from '../../shared/readings/templates'
+import type { ReadingTemplate } from '../../shared/types/domain'
+import type { PixelPoint } from '../../shared/types/landmarks'
+import type { CreateReadingInput, PatchReadingInput, Reading } from '../../shared/types/readings'
+import { audit, type Actor } from './audit'
+import { loadVisibleImage } from './images'
+import { calibrationOf, computeReadingResults, landmarkDocument } from './readings-results'
+
+type Points = Record<string, PixelPoint>
+
+/** A 409 that carries the reading as it now stands, so the client can show the conflict. */
+export class ReadingConflictError extends HttpError {
+  constructor(
+    message: string,
+    readonly current: Reading,
+  ) {
+    super(409, 'conflict', message, { version: [`version: current version is ${current.version}`] })
+  }
+}
+
+function toReadingDto(record: ReadingRecord): Reading {
+  return { ...record }
+}
+
+/** Loads a reading whose film the actor may see, with that film; anything else is a 404. */
+async function loadVisibleReading(
+  db: Db,
+  actor: Actor,
+  id: number,
+): Promise<{ reading: ReadingRecord; image: ImageRow }> {
+  const reading = await findReading(db, id)
+  if (!reading) throw notFound('reading')
+  try {
+    return { reading, image: await loadVisibleImage(db, actor, reading.imageId) }
+  } catch {
+    throw notFound('reading')
+  }
+}
+
+/** Site settings the engine needs, with the reference defaults (measurement-reference §7, §8). */
+async function nonNegativeSetting(db: Db, key: string, fallback: number): Promise<number> {
+  const value = await findSiteSetting(db, key)
+  return typeof value === 'number' && Number.isFinite(value) && value >= 0 ? value : fallback
+}
+
+/** Every landmark must belong to the template and lie on its film. */
+function checkPoints(
+  field: 'points' | 'pairedPoints',
+  points: Points,
+  template: ReadingTemplate,
+  options: TemplateOptions,
+  film: ImageRow,
+): void {
+  const allowed = new Set(templateLandmarks(template, options).map((spec) => spec.name))
+  for (const [name, [x, y]] of Object.entries(points)) {
+    if (!allowed.has(name)) {
+      throw badRequest(
+        `${field}.${name}: is not a landmark of the ${TEMPLATE_LABELS[template]} template`,
+        {
+          [`${field}.${name}`]: [`${field}.${name}: not a landmark of this template`],
+        },
+      )
+    }
+    if (x < 0 || y < 0 || x > film.width || y > film.height) {
+      throw badRequest(
+        `${field}.${name}: (${x}, ${y}) lies outside the ${film.width} × ${film.height} film`,
+        {
+          [`${field}.${name}`]: [`${field}.${name}: outside the film`],
+        },
+      )
+    }
+  }
+}
+
+interface ComputeContext {
+  readingId: number | null
+  template: ReadingTemplate
+  options: TemplateOptions
+  image: ImageRow
+  pairedImage: ImageRow | null
+  points: Points
+  pairedPoints: Points | null
+}
+
+/** Runs the engine on a reading's landmarks; the engine's refusal is a 400 and stores nothing. */
+async function compute(db: Db, context: ComputeContext): Promise<ReadingComputation> {
+  const calibration = calibrationOf(context.image)
+  const pairedCalibration = context.pairedImage ? calibrationOf(context.pairedImage) : null
+  const document = landmarkDocument(context.points, calibration)
+  const pairedDocument = pairedCalibration
+    ? landmarkDocument(context.pairedPoints ?? {}, pairedCalibration)
+    : null
+  let baseline: { readingId: number; document: ReadingRecord['landmarks'] } | null = null
+  if (context.template === 'construct-check') {
+    const visit = await findVisit(db, context.image.visitId)
+    const found = visit
+      ? await findConstructBaseline(db, visit.patientId, context.readingId, visit.visitDate)
+      : undefined
+    if (found) baseline = { readingId: found.id, document: found.landmarks }
+  }
+  try {
+    const results = computeReadingResults({
+      template: context.template,
+      options: context.options,
+      document,
+      pairedDocument,
+      baseline,
+      sigmaMm: await nonNegativeSetting(db, 'landmarkSigmaMm', DEFAULT_SIGMA_MM),
+      subsidenceThresholdMm: await nonNegativeSetting(
+        db,
+        'subsidenceThresholdMm',
+        DEFAULT_SUBSIDENCE_THRESHOLD_MM,
+      ),
+    })
+    return {
+      landmarks: document,
+      pairedLandmarks: pairedDocument,
+      calibration,
+      pairedCalibration,
+      results,
+      engineVersion: APP_VERSION,
+    }
+  } catch (error) {
+    if (error instanceof LandmarkDocumentError)
+      throw new HttpError(400, 'invalid_landmarks', error.message)
+    throw error
+  }
+}
+
+/** A motion pair is read on a flexion film against an extension film of the same visit. */
+async function loadPairedImage(db: Db, image: ImageRow, pairedImageId: number): Promise<ImageRow> {
+  if (image.view !== 'lateral-flexion') {
+    throw badRequest(`A motion pair is started on the flexion film; this film is ${image.view}.`, {
+      pairedImageId: ['pairedImageId: start the reading on the flexion film'],
+    })
+  }
+  const paired = await findImage(db, pairedImageId)
+  if (!paired || paired.visitId !== image.visitId || paired.id === image.id) {
+    throw badRequest(`pairedImageId: film ${pairedImageId} is not another film of this visit.`, {
+      pairedImageId: ['pairedImageId: must be another film of the same visit'],
+    })
+  }
+  if (paired.view !== 'lateral-extension') {
+    throw badRequest(
+      `pairedImageId: film ${pairedImageId} is ${paired.view}; a motion pair needs the extension film.`,
+      { pairedImageId: ['pairedImageId: must be the lateral-extension film'] },
+    )
+  }
+  return paired
+}
+
+async function reload(db: Db, id: number): Promise<ReadingRecord> {
+  const reading = await findReading(db, id)
+  if (!reading) throw notFound('reading')
+  return reading
+}
+
+export async function createReading(
+  db: Db,
+  actor: Actor,
+  imageId: number,
+  input: CreateReadingInput,
+): Promise<Reading> {
+  const image = await loadVisibleImage(db, actor, imageId)
+  const options = input.options ?? {}
+  const pairedImage =
+    input.template === 'motion-pair' && input.pairedImageId !== undefined
+      ? await loadPairedImage(db, image, input.pairedImageId)
+      : null
+  const points = input.points ?? {}
+  checkPoints('points', points, input.template, options, image)
+  return db.transaction(async (trx) => {
+    const computation = await compute(trx, {
+      readingId: null,
+      template: input.template,
+      options,
+      image,
+      pairedImage,
+      points,
+      pairedPoints: null,
+    })
+    const id = await insertReading(trx, {
+      imageId,
+      pairedImageId: pairedImage?.id ?? null,
+      raterId: actor.user.id,
+      template: input.template,
+      options,
+      ...computation,
+    })
+    const segment = options.segment ? ` at ${options.segment}` : ''
+    await audit(
+      trx,
+      actor,
+      'create',
+      'reading',
+      id,
+      `Started a ${input.template} reading${segment} on film ${imageId} with ${Object.keys(points).length} landmarks`,
+    )
+    return toReadingDto(await reload(trx, id))
+  })
+}
+
+export async function getReading(db: Db, actor: Actor, id: number): Promise<Reading> {
+  return toReadingDto((await loadVisibleReading(db, actor, id)).reading)
+}
+
+export async function listImageReadings(db: Db, actor: Actor, imageId: number): Promise<Reading[]> {
+  await loadVisibleImage(db, actor, imageId)
+  return (await listReadingsOfImage(db, imageId)).map(toReadingDto)
+}
+
+/** Rater only, drafts only, and only from the version the rater last saw. */
+function assertEditable(reading: ReadingRecord, actor: Actor, version: number): void {
+  if (reading.raterId !== actor.user.id)
+    throw forbidden('Only the rater who started this reading can change it.')
+  if (reading.status !== 'draft') {
+    throw new HttpError(
+      409,
+      'reading_not_draft',
+      `This reading is already ${reading.status}; it can no longer be changed.`,
+    )
+  }
+  if (reading.version !== version) {
+    throw new ReadingConflictError(
+      'This reading was saved elsewhere since you opened it. Nothing was overwritten: compare with the current landmarks and save again.',
+      toReadingDto(reading),
+    )
+  }
+}
+
+/** Counts landmarks added, moved and removed between two point sets. */
+function changeCount(
+  before: Points,
+  after: Points,
+): { added: number; moved: number; removed: number } {
+  let added = 0
+  let moved = 0
+  for (const [name, [x, y]] of Object.entries(after)) {
+    const old = before[name]
+    if (old === undefined) added += 1
+    else if (old[0] !== x || old[1] !== y) moved += 1
+  }
+  const removed = Object.keys(before).filter((name) => !(name in after)).length
+  return { added, moved, removed }
+}
+
+/** After a refused guarded write, the 409 that says why (status or version). */
+async function refusedWrite(db: Db, id: number, actor: Actor, version: number): Promise<never> {
+  assertEditable(await reload(db, id), actor, version)
+  throw new ReadingConflictError(
+    'This reading was saved elsewhere since you opened it. Nothing was overwritten.',
+    toReadingDto(await reload(db, id)),
+  )
+}
+
+export async function patchReading(
+  db: Db,
+  actor: Actor,
+  id: number,
+  patch: PatchReadingInput,
+): Promise<Reading> {
+  const { reading, image } = await loadVisibleReading(db, actor, id)
+  assertEditable(reading, actor, patch.version)
+  if (patch.pairedPoints !== undefined && reading.template !== 'motion-pair') {
+    throw badRequest('pairedPoints: apply to motion-pair readings only', {
+      pairedPoints: ['pairedPoints: motion-pair readings only'],
+    })
+  }
+  const pairedImage =
+    reading.pairedImageId !== null ? await findImage(db, reading.pairedImageId) : undefined
+  checkPoints('points', patch.points, reading.template, reading.options, image)
+  const pairedPoints = patch.pairedPoints ?? reading.pairedLandmarks?.points ?? null
+  if (pairedImage && patch.pairedPoints)
+    checkPoints('pairedPoints', patch.pairedPoints, reading.template, reading.options, pairedImage)
+  return db.transaction(async (trx) => {
+    const computation = await compute(trx, {
+      readingId: id,
+      template: reading.template,
+      options: reading.options,
+      image,
+      pairedImage: pairedImage ?? null,
+      points: patch.points,
+      pairedPoints,
+    })
+    if (!(await updateDraftReading(trx, id, patch.version, computation)))
+      return refusedWrite(trx, id, actor, patch.version)
+    const main = changeCount(reading.landmarks.points, patch.points)
+    const paired = changeCount(reading.pairedLandmarks?.points ?? {}, pairedPoints ?? {})
+    const total = (c: typeof main) => c.added + c.moved + c.removed
+    const pairedNote =
+      reading.template === 'motion-pair' ? `; ${total(paired)} on the extension film` : ''
+    await audit(
+      trx,
+      actor,
+      'update',
+      'reading',
+      id,
+      `Saved ${reading.template} reading ${id}: ${total(main)} landmarks changed (${main.added} added, ${main.moved} moved, ${main.removed} removed)${pairedNote}`,
+    )
+    return toReadingDto(await reload(trx, id))
+  })
+}
+
+export async function submitReading(
+  db: Db,
+  actor: Actor,
+  id: number,
+  version: number,
+): Promise<Reading> {
+  const { reading, image } = await loadVisibleReading(db, actor, id)
+  assertEditable(reading, actor, version)
+  const names = templateLandmarks(reading.template, reading.options).map((spec) => spec.name)
+  const placed = names.filter((name) => name in reading.landmarks.points)
+  if (placed.length === 0) {
+    throw badRequest(
+      `Place at least one landmark of the ${TEMPLATE_LABELS[reading.template]} template before submitting.`,
+      { points: ['points: none of the template landmarks is placed'] },
+    )
+  }
+  const pairedImage =
+    reading.pairedImageId !== null ? await findImage(db, reading.pairedImageId) : undefined
+  return db.transaction(async (trx) => {
+    // Recomputed with the films' current calibration, so the submitted results match what is shown.
+    const computation = await compute(trx, {
+      readingId: id,
+      template: reading.template,
+      options: reading.options,
+      image,
+      pairedImage: pairedImage ?? null,
+      points: reading.landmarks.points,
+      pairedPoints: reading.pairedLandmarks?.points ?? null,
+    })
+    if (!(await submitDraftReading(trx, id, version, computation)))
+      return refusedWrite(trx, id, actor, version)
+    await audit(
+      trx,
+      actor,
+      'submit',
+      'reading',
+      id,
+      `Submitted ${reading.template} reading ${id} with ${placed.length} of ${names.length} landmarks placed`,
+    )
+    return toReadingDto(await reload(trx, id))
+  })
+}
