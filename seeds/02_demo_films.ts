@@ -7,12 +7,8 @@ import { TABLES } from '../server/db/tables'
 import { createLocalFileStore } from '../server/storage/local-file-store'
 import { uploadImages } from '../server/services/images'
 import { generatePhantom, phantomDicom } from '../server/phantom/generate-phantom'
-import { phantomPreset } from '../server/phantom/presets'
-import type { PhantomParamsInput } from '../server/phantom/phantom-params'
 import { DEMO_PATIENTS } from '../server/demo/demo-data'
-import { DEMO_FILMS } from '../server/demo/demo-films'
-
-const dicomDate = (iso: string) => iso.replace(/-/g, '')
+import { DEMO_FILMS, demoFilmParams } from '../server/demo/demo-films'
 
 /**
  * Files a rendered phantom film on each demo visit through the same pipeline as a user's upload.
@@ -34,18 +30,7 @@ export async function seed(knex: Knex): Promise<void> {
     if (!patient || !visitPlan) throw new Error(`Demo film ${film.preset} names no demo visit`)
     const patientRow = await knex(TABLES.patients).where({ record_number: patient.recordNumber }).first()
     const visitRow = await knex(TABLES.visits).where({ patient_id: patientRow.id, visit_date: visitPlan.date }).first()
-    const params: PhantomParamsInput = {
-      ...phantomPreset(film.preset),
-      seed: film.seed,
-      patient: {
-        name: `${patient.familyName.toUpperCase()}^${patient.givenName.toUpperCase()}`,
-        id: patient.recordNumber,
-        birthDate: dicomDate(patient.birthDate),
-        sex: patient.sex === 'female' ? 'F' : patient.sex === 'male' ? 'M' : 'O',
-      },
-      studyDate: dicomDate(visitPlan.date),
-    }
-    const bytes = phantomDicom(await generatePhantom(params))
+    const bytes = phantomDicom(await generatePhantom(demoFilmParams(film, patient, visitPlan)))
     const path = join(tmpDir, `demo-${film.preset}-${film.seed}.upload`)
     await writeFile(path, bytes)
     await uploadImages(knex, store, actor, visitRow.id, {

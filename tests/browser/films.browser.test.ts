@@ -63,7 +63,7 @@ describe('Films on a visit in Chromium', () => {
     await grid.getByText('Lateral, flexion').waitFor()
     await grid.getByText('Lateral, neutral').waitFor()
     await expect.poll(() => page.getByRole('list', { name: 'Films to upload' }).count()).toBe(0)
-    const loaded = await grid.locator('img').evaluateAll((images) => images.every((image) => (image as HTMLImageElement).naturalWidth > 0))
+    const loaded = await grid.locator('img').evaluateAll((images) => images.every((image) => (image as unknown as { naturalWidth: number }).naturalWidth > 0))
     expect(loaded).toBe(true)
     await page.screenshot({ path: screenshotPath('films-uploaded'), fullPage: true })
 
