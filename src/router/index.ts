@@ -4,7 +4,13 @@ import { useSessionStore } from '@/stores/session'
 import SignInView from '@/views/SignInView.vue'
 
 /** Every route name; navigation goes by name so a typo does not compile. */
-export type RouteName = 'sign-in' | 'patients' | 'patient' | 'administration' | 'not-found'
+export type RouteName =
+  | 'sign-in'
+  | 'patients'
+  | 'patient'
+  | 'reading-workspace'
+  | 'administration'
+  | 'not-found'
 
 declare module 'vue-router' {
   interface RouteMeta {
@@ -31,6 +37,13 @@ const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
     component: () => import('@/views/PatientView.vue'),
     props: (route) => ({ patientId: Number(route.params.patientId) }),
     meta: { permission: 'patient:read', title: 'Patient' },
+  },
+  {
+    path: '/readings/:readingId',
+    name: 'reading-workspace',
+    component: () => import('@/views/ReadingWorkspaceView.vue'),
+    props: (route) => ({ readingId: Number(route.params.readingId) }),
+    meta: { permission: 'patient:read', title: 'Reading' },
   },
   {
     path: '/administration',

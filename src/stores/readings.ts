@@ -70,6 +70,8 @@ export const useReadingsStore = defineStore('readings', () => {
   const lastSavedAt = ref<Date | null>(null)
   /** True while local landmarks differ from what the server last accepted. */
   const dirty = ref(false)
+  /** True between pointer-down and pointer-up on a landmark. */
+  const dragging = ref(false)
 
   let editRevision = 0
   let saveTimer: ReturnType<typeof setTimeout> | null = null
@@ -83,7 +85,11 @@ export const useReadingsStore = defineStore('readings', () => {
   const isPair = computed(() =>
     reading.value ? templateNeedsPairedImage(reading.value.template) : false,
   )
-  const readOnly = computed(() => reading.value === null || reading.value.status !== 'draft')
+  /** False for a role that may not write readings; the server enforces it as well. */
+  const writable = ref(true)
+  const readOnly = computed(
+    () => !writable.value || reading.value === null || reading.value.status !== 'draft',
+  )
   const sidePoints = (side: FilmSide) => (side === 'primary' ? points : pairedPoints)
   const activePoints = computed(() => sidePoints(activeSide.value).value)
   /** The first landmark of the checklist not yet placed on the active film. */
@@ -187,7 +193,9 @@ export const useReadingsStore = defineStore('readings', () => {
 
   /** Pointer-down on a landmark: remembers where the history step starts. */
   function beginDrag(): void {
-    if (!readOnly.value) dragStart = snapshot()
+    if (readOnly.value) return
+    dragStart = snapshot()
+    dragging.value = true
   }
 
   /** Every pointer move: updates the point (results follow) without a history step. */
@@ -200,6 +208,7 @@ export const useReadingsStore = defineStore('readings', () => {
   function endDrag(): void {
     if (dragStart !== null) commitFrom(dragStart)
     dragStart = null
+    dragging.value = false
   }
 
   function removePoint(name: string, side: FilmSide = activeSide.value): void {
@@ -433,6 +442,7 @@ export const useReadingsStore = defineStore('readings', () => {
     dirty.value = false
     retryAttempt = 0
     dragStart = null
+    dragging.value = false
   }
 
   return {
@@ -453,6 +463,8 @@ export const useReadingsStore = defineStore('readings', () => {
     conflict,
     lastSavedAt,
     dirty,
+    dragging,
+    writable,
     specs,
     isPair,
     readOnly,
