@@ -21,6 +21,7 @@ import { auditEventsRouter } from './routes/audit-events'
 import { measurementsRouter } from './routes/measurements'
 import { imagesRouter } from './routes/images'
 import { readingsRouter } from './routes/readings'
+import { plansRouter } from './routes/plans'
 import { createLocalFileStore } from './storage/local-file-store'
 import type { FileStore } from './storage/file-store'
 import { projectRoot } from './project-root'
@@ -84,6 +85,7 @@ export function createApp({ db, config, logger, clientDir = join(projectRoot, 'd
   )
   api.use(requireSession)
   api.use('/patients', patientsRouter(db))
+  api.use('/patients', plansRouter(db))
   api.use('/visits', visitsRouter(db, { store, uploadTmpDir: join(config.uploadDirAbsolute, 'tmp'), uploadMaxMb: config.UPLOAD_MAX_MB }))
   api.use('/images', imagesRouter(db, store))
   api.use(readingsRouter(db))

@@ -12,7 +12,7 @@ import { insertImage } from '../../server/db/images'
 type Who = Role | 'anonymous'
 
 interface RouteCase {
-  method: 'get' | 'post' | 'patch'
+  method: 'get' | 'post' | 'patch' | 'put'
   path: (ids: Ids) => string
   body?: (ids: Ids, n: number) => object
   /** The version a versioned write sends; patches default to the patient's or visit's. */
@@ -56,6 +56,10 @@ const ROUTES: RouteCase[] = [
   { method: 'get', path: (ids) => `/api/readings/${ids.readingId}`, expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 } },
   { method: 'patch', path: (ids) => `/api/readings/${ids.readingId}`, body: () => ({ points: { 'L5.as': [10, 10] } }), version: (ids) => ids.readingVersion(), expect: { anonymous: 401, admin: 403, surgeon: 403, fellow: 200, researcher: 403 } },
   { method: 'post', path: (ids) => `/api/readings/${ids.readingId}/submit`, body: () => ({}), version: (ids) => ids.readingVersion(), expect: { anonymous: 401, admin: 403, surgeon: 403, fellow: 200, researcher: 403 } },
+  // Plan and trends: everyone who reads the patient; the plan is written by surgeons only.
+  { method: 'get', path: (ids) => `/api/patients/${ids.patientId}/plan`, expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 } },
+  { method: 'put', path: (ids) => `/api/patients/${ids.patientId}/plan/L4-L5`, body: () => ({ parsDefectLeft: false, parsDefectRight: false, facetDegeneration: false, dynamicInstability: false, treatment: 'disc-replacement', implantLordosisDeg: 6, implantHeightMm: 10, notes: null, version: null }), expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 403, researcher: 403 } },
+  { method: 'get', path: (ids) => `/api/patients/${ids.patientId}/trends`, expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 } },
   { method: 'get', path: () => '/api/users', expect: { anonymous: 401, admin: 200, surgeon: 403, fellow: 403, researcher: 403 } },
   { method: 'get', path: () => '/api/audit-events', expect: { anonymous: 401, admin: 200, surgeon: 403, fellow: 403, researcher: 403 } },
   { method: 'get', path: () => '/api/no-such-route', expect: { anonymous: 401, admin: 404, surgeon: 404, fellow: 404, researcher: 404 } },

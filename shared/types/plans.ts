@@ -1,0 +1,140 @@
+import type {
+  MotionSegment,
+  PlannedTreatment,
+  ReadingStatus,
+  ReadingTemplate,
+  SpacingSource,
+  VisitKind,
+} from './domain'
+import type {
+  MeyerdingGrade,
+  PiLlBand,
+  PlanCheckFlag,
+  PlannedLordosisEstimate,
+} from './measurement'
+
+/** The reading a measured value was taken from, so every number on the plan can be traced. */
+export interface MeasureSource {
+  readingId: number
+  template: ReadingTemplate
+  status: ReadingStatus
+  visitId: number
+  visitKind: VisitKind
+  /** Millimetre values only: where the film's scale came from. */
+  calibrationSource: SpacingSource | null
+}
+
+/** A measured value with its reading; the field itself is null when nothing measured it. */
+export interface MeasuredValue<T = number> extends MeasureSource {
+  value: T
+}
+
+/** What the latest submitted or signed pre-op readings say about one segment. */
+export interface SegmentEvidence {
+  /** Taillard slip in % (positive anterolisthesis). */
+  slipPercent: MeasuredValue | null
+  meyerdingGrade: MeasuredValue<MeyerdingGrade | null> | null
+  /** Flexion–extension translation in mm (motion pair). */
+  dynamicTranslationMm: MeasuredValue | null
+  /** Two-point mean disc height in mm. */
+  residualDiscHeightMm: MeasuredValue | null
+  /** Cobb angle of the segment in degrees, lordosis positive. */
+  currentSegmentalLordosisDeg: MeasuredValue | null
+}
+
+export interface PlanSegment {
+  segment: MotionSegment
+  /** Findings are null while the segment was never saved: not recorded, which is not "absent". */
+  parsDefectLeft: boolean | null
+  parsDefectRight: boolean | null
+  facetDegeneration: boolean | null
+  dynamicInstability: boolean | null
+  treatment: PlannedTreatment
+  /** Lordotic angle of the planned implant in degrees. */
+  implantLordosisDeg: number | null
+  /** Height of the planned implant in mm. */
+  implantHeightMm: number | null
+  notes: string | null
+  /** Null = never saved; send it back unchanged to create the row. */
+  version: number | null
+  updatedAt: string | null
+  evidence: SegmentEvidence
+  /** Disc-replacement checks; empty for other treatments. */
+  checks: PlanCheckFlag[]
+}
+
+/** The plan's expected L1–S1 lordosis beside the target from PI, with what they rest on. */
+export interface PlanLordosis extends PlannedLordosisEstimate {
+  currentLordosisDeg: MeasuredValue | null
+  pelvicIncidenceDeg: MeasuredValue | null
+  /** PI − current L1–S1 lordosis, and its SRS-Schwab band. */
+  currentMismatchDeg: number | null
+  currentBand: PiLlBand | null
+  /** PI − expected lordosis after the plan, and its band. */
+  plannedMismatchDeg: number | null
+  plannedBand: PiLlBand | null
+}
+
+export interface PatientPlan {
+  patientId: number
+  segments: PlanSegment[]
+  lordosis: PlanLordosis
+  /** Says which readings the evidence was drawn from. */
+  evidenceNote: string
+}
+
+/** Treatments that place an implant or set the segment angle: only these carry implant values. */
+export const IMPLANT_TREATMENTS: readonly PlannedTreatment[] = [
+  'disc-replacement',
+  'interbody-fusion',
+  'posterior-fusion',
+]
+
+export interface PlanSegmentInput {
+  parsDefectLeft: boolean
+  parsDefectRight: boolean
+  facetDegeneration: boolean
+  dynamicInstability: boolean
+  treatment: PlannedTreatment
+  implantLordosisDeg: number | null
+  implantHeightMm: number | null
+  notes: string | null
+  /** The version last read; null to create a segment that was never saved. */
+  version: number | null
+}
+
+export type TrendMeasure = 'slip-percent' | 'lumbar-lordosis' | 'segmental-lordosis' | 'disc-height'
+
+/** A visit on the trend axis; researchers get a sequence number instead of the date. */
+export interface TrendVisit {
+  visitId: number
+  visitKind: VisitKind
+  monthsSinceSurgery: number | null
+  /** Null for researchers. */
+  visitDate: string | null
+  /** 1-based position in time order. */
+  sequence: number
+}
+
+export interface TrendPoint extends MeasureSource {
+  value: number
+  /** True when no submitted or signed reading of the visit measured it and a draft stands in. */
+  isDraft: boolean
+}
+
+export interface TrendSeries {
+  /** Stable key, e.g. 'slip-percent:L5-S1'. */
+  key: string
+  measure: TrendMeasure
+  segment: MotionSegment | null
+  label: string
+  unit: '%' | '°' | 'mm'
+  /** At most one point per visit, in visit order. */
+  points: TrendPoint[]
+}
+
+export interface PatientTrends {
+  patientId: number
+  visits: TrendVisit[]
+  series: TrendSeries[]
+}
