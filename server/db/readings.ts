@@ -201,29 +201,29 @@ export async function submitDraftReading(
 }
 
 /**
- * The subsidence baseline of a patient: the earliest submitted or signed construct-check reading
- * on a post-op visit (by visit date, then by when it was submitted), other than `exceptId`, and
- * not from a visit after `onOrBefore` (a baseline cannot come later than the film it is for).
+ * Candidate subsidence baselines of a patient, earliest first: submitted or signed
+ * construct-check readings on post-op visits other than the current reading's own visit (a
+ * second rater on the same film is a reliability question, not subsidence) and not later than
+ * it. The caller picks, per treated segment, the earliest that measures that segment.
  */
-export async function findConstructBaseline(
+export async function findConstructBaselines(
   db: Db,
   patientId: number,
-  exceptId: number | null,
-  onOrBefore: string,
-): Promise<ReadingRecord | undefined> {
+  current: { readingId: number | null; visitId: number; visitDate: string },
+): Promise<ReadingRecord[]> {
   const query = withRater(db)
     .join(`${TABLES.images} as i`, 'i.id', 'r.image_id')
     .join(`${TABLES.visits} as v`, 'v.id', 'i.visit_id')
     .select(COLUMNS)
     .where({ 'v.patient_id': patientId, 'v.kind': 'post-op', 'r.template': 'construct-check' })
     .whereIn('r.status', ['submitted', 'signed'])
-    .where('v.visit_date', '<=', onOrBefore)
+    .where('v.visit_date', '<=', current.visitDate)
+    .whereNot('v.id', current.visitId)
     .orderBy([
       { column: 'v.visit_date', order: 'asc' },
       { column: 'r.submitted_at', order: 'asc' },
       { column: 'r.id', order: 'asc' },
     ])
-  if (exceptId !== null) query.whereNot('r.id', exceptId)
-  const row = (await query.first()) as RawRow | undefined
-  return row ? toReading(row) : undefined
+  if (current.readingId !== null) query.whereNot('r.id', current.readingId)
+  return ((await query) as RawRow[]).map(toReading)
 }

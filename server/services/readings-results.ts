@@ -7,7 +7,6 @@ import {
 } from '../../shared/measurement/index'
 import type { ImageRow } from '../db/images'
 import type { LandmarkDocument, PixelPoint } from '../../shared/types/landmarks'
-import type { SubsidenceResult } from '../../shared/types/measurement'
 import type { ReadingCalibration, ReadingResults } from '../../shared/types/readings'
 import type { TemplateOptions } from '../../shared/readings/templates'
 import type { ReadingTemplate } from '../../shared/types/domain'
@@ -35,8 +34,8 @@ export interface ResultsInput {
   document: LandmarkDocument
   /** Motion pair: the extension film's document. */
   pairedDocument: LandmarkDocument | null
-  /** Construct check: the baseline reading's document and id, when there is one. */
-  baseline: { readingId: number; document: LandmarkDocument } | null
+  /** Construct check: candidate baseline readings, earliest first (see findConstructBaselines). */
+  baselines: Array<{ readingId: number; document: LandmarkDocument }>
   sigmaMm: number
   subsidenceThresholdMm: number
 }
@@ -50,23 +49,30 @@ function assertFinite(node: unknown, path: string): void {
   }
 }
 
-/** One entry per treated segment, each holding that segment's loss against the baseline. */
-function subsidenceBySegment(input: ResultsInput): Record<string, SubsidenceResult> | null {
-  if (input.template !== 'construct-check' || input.baseline === null) return null
-  const all = computeSubsidence(input.document, input.baseline.document, {
-    thresholdMm: input.subsidenceThresholdMm,
-  })
-  const bySegment: Record<string, SubsidenceResult> = {}
+/**
+ * One entry per treated segment, each against the earliest baseline that measured that segment:
+ * a segment treated at a later operation gets its own first post-op reading as baseline.
+ */
+function subsidenceBySegment(input: ResultsInput): ReadingResults['subsidence'] {
+  if (input.template !== 'construct-check' || input.baselines.length === 0) return null
+  const bySegment: NonNullable<ReadingResults['subsidence']> = {}
   for (const { segment } of input.options.construct ?? []) {
-    const result = all.segments[segment]
-    if (result !== undefined)
+    for (const baseline of input.baselines) {
+      const all = computeSubsidence(input.document, baseline.document, {
+        thresholdMm: input.subsidenceThresholdMm,
+      })
+      const result = all.segments[segment]
+      if (result === undefined) continue
       bySegment[segment] = {
         thresholdMm: all.thresholdMm,
         source: all.source,
         segments: { [segment]: result },
+        baselineReadingId: baseline.readingId,
       }
+      break
+    }
   }
-  return bySegment
+  return Object.keys(bySegment).length > 0 ? bySegment : null
 }
 
 /**
@@ -89,7 +95,7 @@ export function computeReadingResults(input: ResultsInput): ReadingResults {
     uncertainty,
     motion,
     subsidence,
-    subsidenceBaselineReadingId: subsidence === null ? null : (input.baseline?.readingId ?? null),
+    subsidenceBaselineReadingId: subsidence === null ? null : Math.min(...Object.values(subsidence).map((entry) => entry.baselineReadingId)),
   }
   assertFinite(results, 'results')
   return results

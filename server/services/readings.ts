@@ -2,7 +2,7 @@ import type { Db } from '../db/knex'
 import { findImage, type ImageRow } from '../db/images'
 import { findVisit } from '../db/visits'
 import {
-  findConstructBaseline,
+  findConstructBaselines,
   findReading,
   insertReading,
   listReadingsOfImage,
@@ -115,13 +115,17 @@ async function compute(db: Db, context: ComputeContext): Promise<ReadingComputat
   const pairedDocument = pairedCalibration
     ? landmarkDocument(context.pairedPoints ?? {}, pairedCalibration)
     : null
-  let baseline: { readingId: number; document: ReadingRecord['landmarks'] } | null = null
+  let baselines: Array<{ readingId: number; document: ReadingRecord['landmarks'] }> = []
   if (context.template === 'construct-check') {
     const visit = await findVisit(db, context.image.visitId)
     const found = visit
-      ? await findConstructBaseline(db, visit.patientId, context.readingId, visit.visitDate)
-      : undefined
-    if (found) baseline = { readingId: found.id, document: found.landmarks }
+      ? await findConstructBaselines(db, visit.patientId, {
+          readingId: context.readingId,
+          visitId: visit.id,
+          visitDate: visit.visitDate,
+        })
+      : []
+    baselines = found.map((reading) => ({ readingId: reading.id, document: reading.landmarks }))
   }
   try {
     const results = computeReadingResults({
@@ -129,7 +133,7 @@ async function compute(db: Db, context: ComputeContext): Promise<ReadingComputat
       options: context.options,
       document,
       pairedDocument,
-      baseline,
+      baselines,
       sigmaMm: await nonNegativeSetting(db, 'landmarkSigmaMm', DEFAULT_SIGMA_MM),
       subsidenceThresholdMm: await nonNegativeSetting(
         db,
@@ -194,6 +198,11 @@ export async function createReading(
       : null
   const points = input.points ?? {}
   checkPoints('points', points, input.template, options, image)
+  if (input.template === 'construct-check' && (await findVisit(db, image.visitId))?.kind === 'pre-op') {
+    throw badRequest('template: a construct check reads a film taken after surgery; this film belongs to a pre-op visit', {
+      template: ['template: construct-check needs a post-op or follow-up film'],
+    })
+  }
   return db.transaction(async (trx) => {
     const computation = await compute(trx, {
       readingId: null,
@@ -269,6 +278,22 @@ function changeCount(
   return { added, moved, removed }
 }
 
+/** Thrown inside a transaction whose guarded write matched no row; answered after rollback. */
+class GuardedWriteRefused extends Error {}
+
+/**
+ * Runs a write transaction; when its guarded UPDATE is refused, answers the 409 from a fresh
+ * read after the rollback (inside the transaction the snapshot predates the competing write).
+ */
+async function guardedWrite<T>(db: Db, id: number, actor: Actor, version: number, work: (trx: Db) => Promise<T>): Promise<T> {
+  try {
+    return await db.transaction(work)
+  } catch (error) {
+    if (error instanceof GuardedWriteRefused) return refusedWrite(db, id, actor, version)
+    throw error
+  }
+}
+
 /** After a refused guarded write, the 409 that says why (status or version). */
 async function refusedWrite(db: Db, id: number, actor: Actor, version: number): Promise<never> {
   assertEditable(await reload(db, id), actor, version)
@@ -297,7 +322,7 @@ export async function patchReading(
   const pairedPoints = patch.pairedPoints ?? reading.pairedLandmarks?.points ?? null
   if (pairedImage && patch.pairedPoints)
     checkPoints('pairedPoints', patch.pairedPoints, reading.template, reading.options, pairedImage)
-  return db.transaction(async (trx) => {
+  return guardedWrite(db, id, actor, patch.version, async (trx) => {
     const computation = await compute(trx, {
       readingId: id,
       template: reading.template,
@@ -308,7 +333,7 @@ export async function patchReading(
       pairedPoints,
     })
     if (!(await updateDraftReading(trx, id, patch.version, computation)))
-      return refusedWrite(trx, id, actor, patch.version)
+      throw new GuardedWriteRefused()
     const main = changeCount(reading.landmarks.points, patch.points)
     const paired = changeCount(reading.pairedLandmarks?.points ?? {}, pairedPoints ?? {})
     const total = (c: typeof main) => c.added + c.moved + c.removed
@@ -344,7 +369,7 @@ export async function submitReading(
   }
   const pairedImage =
     reading.pairedImageId !== null ? await findImage(db, reading.pairedImageId) : undefined
-  return db.transaction(async (trx) => {
+  return guardedWrite(db, id, actor, version, async (trx) => {
     // Recomputed with the films' current calibration, so the submitted results match what is shown.
     const computation = await compute(trx, {
       readingId: id,
@@ -356,7 +381,7 @@ export async function submitReading(
       pairedPoints: reading.pairedLandmarks?.points ?? null,
     })
     if (!(await submitDraftReading(trx, id, version, computation)))
-      return refusedWrite(trx, id, actor, version)
+      throw new GuardedWriteRefused()
     await audit(
       trx,
       actor,

@@ -15,9 +15,12 @@ export interface ReadingResults {
   uncertainty: UncertaintyResult | null
   /** Motion pair only: flexion (image) against extension (paired image). */
   motion: MotionPairResult | null
-  /** Construct check only: against the first post-op reading of the same segments. */
-  subsidence: Record<string, SubsidenceResult> | null
-  /** Id of the reading used as the subsidence baseline, when there is one. */
+  /**
+   * Construct check only: per treated segment, the loss against the earliest post-op reading of
+   * an earlier visit that measured that segment.
+   */
+  subsidence: Record<string, SubsidenceResult & { baselineReadingId: number }> | null
+  /** The earliest baseline reading used, when there is one. */
   subsidenceBaselineReadingId: number | null
 }
 
