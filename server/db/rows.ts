@@ -30,3 +30,11 @@ export function ageInYears(birthDate: string, onDate: string): number {
   const [y, m, d] = onDate.split('-').map(Number) as [number, number, number]
   return y - by - (m < bm || (m === bm && d < bd) ? 1 : 0)
 }
+
+/**
+ * Age for de-identified data: ages above 89 are grouped as 90, as the HIPAA Safe Harbor method
+ * does (from memory: 45 CFR 164.514(b)(2)), so a very old patient cannot be singled out.
+ */
+export function deidentifiedAgeInYears(birthDate: string, onDate: string): number {
+  return Math.min(ageInYears(birthDate, onDate), 90)
+}

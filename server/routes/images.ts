@@ -1,3 +1,4 @@
+import { pipeline } from 'node:stream/promises'
 import { Router } from 'express'
 import type { Db } from '../db/knex'
 import type { FileStore } from '../storage/file-store'
@@ -36,10 +37,9 @@ export function imagesRouter(db: Db, store: FileStore): Router {
     res.setHeader('Content-Type', mediaType)
     res.setHeader('Cache-Control', 'private, max-age=31536000, immutable')
     res.setHeader('ETag', etag)
-    await new Promise<void>((resolveStream, reject) => {
-      stream.on('error', reject)
-      stream.on('end', () => resolveStream())
-      stream.pipe(res)
+    // pipeline destroys the file stream when the browser cancels the download.
+    await pipeline(stream, res).catch((error: NodeJS.ErrnoException) => {
+      if (error.code !== 'ERR_STREAM_PREMATURE_CLOSE') throw error
     })
   })
 

@@ -1,10 +1,15 @@
 import type { ImageRow } from '../db/images'
 import type { ImageRecord } from '../../shared/types/api'
 
-/** The API shape of a stored film. Patient attributes from the header go to clinicians only. */
-export function toImageRecord(image: ImageRow, identified: boolean): ImageRecord {
+/**
+ * The API shape of a stored film. Researchers get no timestamps and no content hash; the
+ * header's patient attributes go to clinicians only, and only with `withPatientAttributes`.
+ */
+export function toImageRecord(image: ImageRow, identified: boolean, withPatientAttributes = false): ImageRecord {
   const base = `/api/images/${image.id}/files`
-  const version = `v=${image.contentHash.slice(0, 16)}`
+  // Renditions of an image id never change (they come from its content), so the id versions them.
+  const version = `v=${image.id}`
+  const calibration = image.manualCalibration
   const dicom = image.dicomAttributes
   return {
     id: image.id,
@@ -18,7 +23,8 @@ export function toImageRecord(image: ImageRow, identified: boolean): ImageRecord
       image.mmPerPixelRow !== null && image.mmPerPixelColumn !== null ? [image.mmPerPixelRow, image.mmPerPixelColumn] : null,
     spacingSource: image.spacingSource,
     spacingNote: image.spacingNote,
-    manualCalibration: image.manualCalibration,
+    manualCalibration:
+      calibration && !identified ? { ...calibration, calibratedAt: null, calibratedBy: null } : calibration,
     window: image.windowCenter !== null && image.windowWidth !== null ? { center: image.windowCenter, width: image.windowWidth } : null,
     acquiredAt: identified ? image.acquiredAt : null,
     dicom: dicom
@@ -30,13 +36,14 @@ export function toImageRecord(image: ImageRow, identified: boolean): ImageRecord
           bitsStored: dicom.bitsStored,
           studyDate: identified ? dicom.studyDate : null,
           acquisitionDate: identified ? dicom.acquisitionDate : null,
-          ...(identified ? { patient: dicom.patient } : {}),
+          // Header identity only where it is asked for one film at a time, and audited there.
+          ...(identified && withPatientAttributes ? { patient: dicom.patient } : {}),
         }
       : null,
-    contentHash: image.contentHash,
+    contentHash: identified ? image.contentHash : null,
     sizeBytes: image.sizeBytes,
     version: image.version,
-    createdAt: image.createdAt,
+    createdAt: identified ? image.createdAt : null,
     urls: {
       display: `${base}/display?${version}`,
       preview: `${base}/preview?${version}`,

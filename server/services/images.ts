@@ -146,9 +146,9 @@ export async function uploadImages(db: Db, store: FileStore, actor: Actor, visit
         const records: ImageRecord[] = []
         for (const row of rows) {
           const id = await insertImage(trx, row)
-          await audit(trx, actor, 'create', 'image', id, `Uploaded ${row.view} film ${row.originalName ?? ''} to visit ${visitId} of patient ${patient.recordNumber}${mismatches.length > 0 ? ' (patient mismatch confirmed)' : ''}`)
+          await audit(trx, actor, 'create', 'image', id, `Uploaded a ${row.view} film to visit ${visitId} of patient ${patient.studyCode}${mismatches.length > 0 ? ' (patient mismatch confirmed)' : ''}`)
           const stored = await findImage(trx, id)
-          if (stored) records.push(toImageRecord(stored, identifies(actor)))
+          if (stored) records.push(toImageRecord(stored, identifies(actor), true))
         }
         return records
       })
@@ -232,15 +232,22 @@ export async function listVisitImages(db: Db, actor: Actor, visitId: number): Pr
   return (await listImagesOfVisit(db, visitId)).map((image) => toImageRecord(image, identifies(actor)))
 }
 
+/** One film; clinicians also get the header's patient attributes, and that view is audited. */
 export async function getImage(db: Db, actor: Actor, imageId: number): Promise<ImageRecord> {
-  return toImageRecord(await loadVisibleImage(db, actor, imageId), identifies(actor))
+  const image = await loadVisibleImage(db, actor, imageId)
+  if (identifies(actor) && image.dicomAttributes) {
+    await audit(db, actor, 'view', 'image', imageId, `Viewed the DICOM header identity of film ${imageId}`)
+  }
+  return toImageRecord(image, identifies(actor), true)
 }
 
 export async function openRendition(db: Db, store: FileStore, actor: Actor, imageId: number, name: RenditionName): Promise<{ stream: Readable; mediaType: string; etag: string }> {
   const image = await loadVisibleImage(db, actor, imageId)
   const key = { display: image.displayPath, preview: image.previewPath, thumbnail: image.thumbnailPath, 'full-depth': image.fullDepthPath }[name]
   const mediaType = key.endsWith('.webp') ? 'image/webp' : 'image/png'
-  return { stream: store.stream(key), mediaType, etag: `"${image.contentHash.slice(0, 16)}-${name}"` }
+  const stream = await store.open(key)
+  if (!stream) throw new HttpError(404, 'not_found', `The ${name} rendition of film ${imageId} is missing from storage.`)
+  return { stream, mediaType, etag: `"${image.id}-${name}"` }
 }
 
 export async function removeImage(db: Db, store: FileStore, actor: Actor, imageId: number): Promise<void> {
@@ -250,7 +257,7 @@ export async function removeImage(db: Db, store: FileStore, actor: Actor, imageI
       throw conflict('This film has readings; it is kept so that they can be traced. Supersede the readings instead.')
     }
     await deleteImage(trx, imageId)
-    await audit(trx, actor, 'delete', 'image', imageId, `Deleted ${image.view} film ${image.originalName ?? ''} from visit ${image.visitId}`)
+    await audit(trx, actor, 'delete', 'image', imageId, `Deleted a ${image.view} film from visit ${image.visitId}`)
   })
   // Files are shared by content hash; remove them only when no other image uses them.
   if ((await countImagesWithHash(db, image.contentHash)) === 0) {

@@ -8,7 +8,7 @@ import {
   updatePatient,
   type PatientRecord,
 } from '../db/patients'
-import { ageInYears } from '../db/rows'
+import { deidentifiedAgeInYears } from '../db/rows'
 import { conflict, notFound } from '../errors'
 import { roleCan } from '../../shared/types/permissions'
 import type {
@@ -50,7 +50,7 @@ export function toDeidentifiedPatient(record: PatientRecord): DeidentifiedPatien
     id: record.id,
     studyCode: record.studyCode,
     sex: record.sex,
-    ageAtFirstVisitYears: record.firstVisitDate ? ageInYears(record.birthDate, record.firstVisitDate) : null,
+    ageAtFirstVisitYears: record.firstVisitDate ? deidentifiedAgeInYears(record.birthDate, record.firstVisitDate) : null,
     visitCount: record.visitCount,
   }
 }
@@ -77,15 +77,18 @@ export async function listPatients(db: Db, actor: Actor, query: PatientQuery): P
     limit: query.limit ?? 20,
   })
   if (!identified) return { items: page.items.map(toDeidentifiedPatient), total: page.total }
-  const searchNote = query.q ? ` matching "${query.q}"` : ''
-  await audit(db, actor, 'view', 'patient-list', null, `Viewed ${page.items.length} of ${page.total} patients${searchNote}`)
+  // The search text itself stays out of the trail: it is usually a patient's name, and the
+  // trail is read by administrators who may not see names.
+  const searchNote = query.q ? ` for a search of ${query.q.length} characters` : ''
+  const ids = page.items.map((item) => item.id).join(', ')
+  await audit(db, actor, 'view', 'patient-list', null, `Viewed ${page.items.length} of ${page.total} patients${searchNote}${ids ? ` (ids ${ids})` : ''}`)
   return { items: page.items.map(toIdentifiedPatient), total: page.total }
 }
 
 export async function getPatient(db: Db, actor: Actor, id: number): Promise<Patient> {
   const record = await loadVisiblePatient(db, actor, id)
   if (!identifies(actor)) return toDeidentifiedPatient(record)
-  await audit(db, actor, 'view', 'patient', id, `Viewed patient ${record.recordNumber}`)
+  await audit(db, actor, 'view', 'patient', id, `Viewed patient ${record.studyCode}`)
   return toIdentifiedPatient(record)
 }
 
@@ -120,9 +123,9 @@ export async function createPatient(db: Db, actor: Actor, input: PatientInput): 
       studyCode: await uniqueStudyCode(trx),
       createdBy: actor.user.id,
     })
-    await audit(trx, actor, 'create', 'patient', id, `Created patient ${input.recordNumber}`)
     const record = await findPatient(trx, id)
     if (!record) throw notFound('patient')
+    await audit(trx, actor, 'create', 'patient', id, `Created patient ${record.studyCode}`)
     return toIdentifiedPatient(record)
   })
 }
@@ -140,7 +143,7 @@ export async function patchPatient(db: Db, actor: Actor, id: number, patch: Pati
       })
     }
     const changedFields = Object.keys(fields).join(', ') || 'nothing'
-    await audit(trx, actor, 'update', 'patient', id, `Updated patient ${current.recordNumber}: ${changedFields}`)
+    await audit(trx, actor, 'update', 'patient', id, `Updated patient ${current.studyCode}: ${changedFields}`)
     const record = await findPatient(trx, id)
     if (!record) throw notFound('patient')
     return toIdentifiedPatient(record)

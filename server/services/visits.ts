@@ -1,7 +1,7 @@
 import type { Db } from '../db/knex'
 import { findVisit, insertVisit, listVisitsOfPatient, updateVisit, type VisitRecord } from '../db/visits'
 import type { PatientRecord } from '../db/patients'
-import { ageInYears } from '../db/rows'
+import { ageInYears, deidentifiedAgeInYears } from '../db/rows'
 import { badRequest, conflict, notFound } from '../errors'
 import { roleCan } from '../../shared/types/permissions'
 import type { DeidentifiedVisit, IdentifiedVisit, Visit, VisitInput, VisitPatch } from '../../shared/types/api'
@@ -32,7 +32,7 @@ function toDeidentifiedVisit(visit: VisitRecord, patient: PatientRecord, sequenc
     sequence,
     visitKind: visit.kind,
     monthsSinceSurgery: visit.monthsSinceSurgery,
-    ageAtVisitYears: ageInYears(patient.birthDate, visit.visitDate),
+    ageAtVisitYears: deidentifiedAgeInYears(patient.birthDate, visit.visitDate),
   }
 }
 
@@ -42,7 +42,7 @@ export async function listVisits(db: Db, actor: Actor, patientId: number): Promi
   const patient = await loadVisiblePatient(db, actor, patientId)
   const visits = await listVisitsOfPatient(db, patientId)
   if (!identifies(actor)) return visits.map((visit, index) => toDeidentifiedVisit(visit, patient, index + 1))
-  await audit(db, actor, 'view', 'patient', patientId, `Viewed visits of patient ${patient.recordNumber}`)
+  await audit(db, actor, 'view', 'patient', patientId, `Viewed visits of patient ${patient.studyCode}`)
   return visits.map((visit) => toIdentifiedVisit(visit, patient))
 }
 
@@ -63,7 +63,7 @@ export async function getVisit(db: Db, actor: Actor, visitId: number): Promise<V
     const all = await listVisitsOfPatient(db, patient.id)
     return toDeidentifiedVisit(visit, patient, all.findIndex((v) => v.id === visit.id) + 1)
   }
-  await audit(db, actor, 'view', 'visit', visitId, `Viewed visit of patient ${patient.recordNumber}`)
+  await audit(db, actor, 'view', 'visit', visitId, `Viewed visit ${visitId} of patient ${patient.studyCode}`)
   return toIdentifiedVisit(visit, patient)
 }
 
@@ -87,7 +87,7 @@ export async function createVisit(db: Db, actor: Actor, patientId: number, input
       indication: input.indication ?? null,
       createdBy: actor.user.id,
     })
-    await audit(trx, actor, 'create', 'visit', id, `Added ${input.visitKind} visit of ${input.visitDate} to patient ${patient.recordNumber}`)
+    await audit(trx, actor, 'create', 'visit', id, `Added a ${input.visitKind} visit to patient ${patient.studyCode}`)
     const visit = await findVisit(trx, id)
     if (!visit) throw notFound('visit')
     return toIdentifiedVisit(visit, patient)
@@ -119,7 +119,7 @@ export async function patchVisit(db: Db, actor: Actor, visitId: number, patch: V
         version: [`version: current version is ${visit.version}`],
       })
     }
-    await audit(trx, actor, 'update', 'visit', visitId, `Updated visit of patient ${patient.recordNumber}: ${Object.keys(fields).join(', ') || 'nothing'}`)
+    await audit(trx, actor, 'update', 'visit', visitId, `Updated visit ${visitId} of patient ${patient.studyCode}: ${Object.keys(fields).join(', ') || 'nothing'}`)
     const updated = await findVisit(trx, visitId)
     if (!updated) throw notFound('visit')
     return toIdentifiedVisit(updated, patient)

@@ -11,7 +11,8 @@ export interface FileStore {
   /** Moves a finished local file (an upload streamed to a temporary path) under the key. */
   putFile(key: string, localPath: string): Promise<void>
   read(key: string): Promise<Buffer>
-  stream(key: string): Readable
+  /** Opens a key for reading; resolves to null when it does not exist. */
+  open(key: string): Promise<Readable | null>
   exists(key: string): Promise<boolean>
   remove(key: string): Promise<void>
 }

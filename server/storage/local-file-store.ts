@@ -26,7 +26,17 @@ export function createLocalFileStore(root: string): FileStore {
       await rename(localPath, target)
     },
     read: (key) => readFile(pathOf(key)),
-    stream: (key) => createReadStream(pathOf(key)),
+    open(key) {
+      const stream = createReadStream(pathOf(key))
+      // Resolve only once the file is open, so a missing file is known before any header is sent.
+      return new Promise((resolveOpen, reject) => {
+        stream.once('open', () => resolveOpen(stream))
+        stream.once('error', (error: NodeJS.ErrnoException) => {
+          if (error.code === 'ENOENT') resolveOpen(null)
+          else reject(error)
+        })
+      })
+    },
     async exists(key) {
       try {
         await access(pathOf(key))

@@ -47,6 +47,7 @@ export interface DeidentifiedPatient {
   id: number
   studyCode: string
   sex: Sex
+  /** 90 stands for 90 or older (ages above 89 are grouped). */
   ageAtFirstVisitYears: number | null
   visitCount: number
 }
@@ -97,6 +98,7 @@ export interface DeidentifiedVisit {
   sequence: number
   visitKind: VisitKind
   monthsSinceSurgery: number | null
+  /** 90 stands for 90 or older (ages above 89 are grouped). */
   ageAtVisitYears: number
 }
 
@@ -158,10 +160,12 @@ export interface ImageRecord {
   window: { center: number; width: number } | null
   acquiredAt: string | null
   dicom: DicomSummary | null
-  contentHash: string
+  /** SHA-256 of the original file; null for researchers (it would link back to the source file). */
+  contentHash: string | null
   sizeBytes: number
   version: number
-  createdAt: string
+  /** Null for researchers: upload times betray visit dates. */
+  createdAt: string | null
   urls: { display: string; preview: string; thumbnail: string; fullDepth: string }
 }
 
@@ -181,8 +185,9 @@ export interface ManualCalibration {
   line: [[number, number], [number, number]]
   lengthMm: number
   lengthPx: number
-  calibratedAt: string
-  calibratedBy: number
+  /** Null for researchers, like every other timestamp. */
+  calibratedAt: string | null
+  calibratedBy: number | null
 }
 
 export interface CalibrationInput {

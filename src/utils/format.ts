@@ -52,3 +52,9 @@ export const SPACING_SOURCE_SHORT: Record<import('@shared/types/domain').Spacing
   'dicom-imager-spacing': 'detector',
   none: 'uncalibrated',
 }
+
+/** "64 y"; in de-identified data 90 stands for 90 or older and reads "90+ y". */
+export function formatAgeYears(age: number | null, deidentified = false): string {
+  if (age === null) return '—'
+  return deidentified && age >= 90 ? '90+ y' : `${age} y`
+}

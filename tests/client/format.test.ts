@@ -45,3 +45,13 @@ describe('fieldErrorsFrom', () => {
     expect(formErrorFrom(error)).toBe('birthDate: cannot be in the future')
   })
 })
+
+describe('formatAgeYears', () => {
+  it('groups de-identified ages of 90 and over as 90+', async () => {
+    const { formatAgeYears } = await import('@/utils/format')
+    expect(formatAgeYears(64)).toBe('64 y')
+    expect(formatAgeYears(90, true)).toBe('90+ y')
+    expect(formatAgeYears(93)).toBe('93 y')
+    expect(formatAgeYears(null)).toBe('—')
+  })
+})

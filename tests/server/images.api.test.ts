@@ -194,6 +194,16 @@ describe('reading and deleting films', () => {
     expect(text).not.toContain('QUILLFEATHER')
     expect(text).not.toContain('TST-IMG-1')
     expect(text).not.toContain('1970-05-17')
+    // No timestamps (they betray the visit date) and no content hash (a link to the source file).
+    expect(list.body[0]).toMatchObject({ createdAt: null, acquiredAt: null, contentHash: null })
+    expect(text).not.toContain(image.contentHash)
+    expect(text).not.toMatch(/\d{4}-\d{2}-\d{2}/)
+    // Clinicians get the header identity one film at a time, and that view is audited.
+    const clinicianList = await request(app).get(`/api/visits/${visitId}/images`).set('Cookie', users.surgeon.cookie)
+    expect(clinicianList.body[0].dicom.patient).toBeUndefined()
+    const one = await request(app).get(`/api/images/${image.id}`).set('Cookie', users.surgeon.cookie)
+    expect(one.body.dicom.patient).toMatchObject({ id: 'TST-IMG-1', birthDate: '1970-05-17' })
+    expect(await db(TABLES.auditEvents).where({ entity: 'image', action: 'view', user_id: users.surgeon.id })).toHaveLength(1)
     expect((await request(app).get(`/api/images/${image.id}/files/thumbnail`).set('Cookie', users.researcher.cookie)).status).toBe(200)
 
     await db(TABLES.studyPatients).delete()

@@ -112,7 +112,21 @@ describe('GET /api/patients', () => {
     await request(app).get('/api/patients?q=Zell').set('Cookie', users.fellow.cookie).expect(200)
     const events = await db(TABLES.auditEvents).where({ entity: 'patient-list', action: 'view' })
     expect(events).toHaveLength(1)
-    expect(events[0].summary).toMatch(/1 of 1 patients matching "Zell"/)
+    expect(events[0].summary).toMatch(/Viewed 1 of 1 patients for a search of 4 characters \(ids \d+\)/)
+  })
+
+  it('keeps names, record numbers and search text out of the audit trail that administrators read', async () => {
+    await request(app).get('/api/patients?q=Zellweger').set('Cookie', users.fellow.cookie).expect(200)
+    const created = await request(app).post('/api/patients').set('Cookie', users.fellow.cookie).send(valid)
+    await request(app).get(`/api/patients/${created.body.id}`).set('Cookie', users.surgeon.cookie).expect(200)
+    await request(app).post(`/api/patients/${created.body.id}/visits`).set('Cookie', users.fellow.cookie).send({ visitDate: '2026-01-10', visitKind: 'pre-op' }).expect(201)
+    const trail = await request(app).get('/api/audit-events?limit=200').set('Cookie', users.admin.cookie)
+    expect(trail.status).toBe(200)
+    const text = JSON.stringify(trail.body)
+    for (const secret of ['Zellweger', 'Anouk', 'R-001', 'Tallowmere', 'EPX-0001', '1975-02-28', '2026-01-10']) {
+      expect(text).not.toContain(secret)
+    }
+    expect(text).toContain(created.body.studyCode)
   })
 
   it.each([
