@@ -6,6 +6,8 @@ declare global {
     interface Request {
       /** Set by `authenticate` once the session token and the account have been checked. */
       user?: SessionUser
+      /** The sign-in this request belongs to; its expiry is the current token's. */
+      session?: { id: string; expiresAt: Date }
     }
   }
 }

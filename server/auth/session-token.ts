@@ -1,3 +1,4 @@
+import { randomBytes } from 'node:crypto'
 import jwt from 'jsonwebtoken'
 import type { Role } from '../../shared/types/domain'
 
@@ -6,6 +7,8 @@ export const SESSION_COOKIE = 'endplate_session'
 export interface SessionClaims {
   sub: string
   role: Role
+  /** One id per sign-in, kept across sliding renewals, so signing out ends every copy. */
+  sid: string
   iat: number
   exp: number
 }
@@ -15,9 +18,13 @@ export interface TokenSettings {
   lifetimeMinutes: number
 }
 
-/** Signs a short-lived session token (HS256) naming the user and the role at sign-in. */
-export function signSessionToken(userId: number, role: Role, settings: TokenSettings): string {
-  return jwt.sign({ role }, settings.secret, {
+export function newSessionId(): string {
+  return randomBytes(16).toString('hex')
+}
+
+/** Signs a short-lived session token (HS256) naming the user, the role and the session. */
+export function signSessionToken(userId: number, role: Role, settings: TokenSettings, sessionId = newSessionId()): string {
+  return jwt.sign({ role, sid: sessionId }, settings.secret, {
     algorithm: 'HS256',
     subject: String(userId),
     expiresIn: settings.lifetimeMinutes * 60,
@@ -28,7 +35,7 @@ export function signSessionToken(userId: number, role: Role, settings: TokenSett
 export function verifySessionToken(token: string, secret: string): SessionClaims | null {
   try {
     const claims = jwt.verify(token, secret, { algorithms: ['HS256'] })
-    if (typeof claims === 'string' || typeof claims.sub !== 'string') return null
+    if (typeof claims === 'string' || typeof claims.sub !== 'string' || typeof claims.sid !== 'string') return null
     return claims as SessionClaims
   } catch {
     return null

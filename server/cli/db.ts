@@ -10,6 +10,10 @@ const { bringUpDatabase, migrateLatest, withDb } = await import('./database-life
 const { mariaDbPaths, stopMariaDb } = await import('./mariadb')
 
 const command = process.argv[2]
+if (config.NODE_ENV === 'production' && (command === 'seed' || command === 'reset')) {
+  console.error(`db:${command} replaces data with the demo and never runs in production.`)
+  process.exit(2)
+}
 const databases = [config.DB_NAME, config.DB_TEST_NAME]
 
 switch (command) {

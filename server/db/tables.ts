@@ -18,10 +18,12 @@ export const TABLES = {
   auditEvents: 'audit_events',
   siteSettings: 'site_settings',
   mailOutbox: 'mail_outbox',
+  revokedSessions: 'revoked_sessions',
 } as const
 
 /** Child tables before parents: the order to truncate or delete in. */
 export const TABLES_CHILDREN_FIRST = [
+  TABLES.revokedSessions,
   TABLES.mailOutbox,
   TABLES.auditEvents,
   TABLES.roundAssignments,

@@ -58,10 +58,11 @@ export async function findUserForLogin(db: Db, email: string): Promise<(UserReco
   return row ? { ...toUser(row), passwordHash: row.password_hash } : undefined
 }
 
-export async function recordFailedLogin(db: Db, id: number, lockUntil: Date | null): Promise<void> {
+/** Counts a failure; `restart` counts it as the first after an expired lock. */
+export async function recordFailedLogin(db: Db, id: number, lockUntil: Date | null, restart = false): Promise<void> {
   await db(TABLES.users)
     .where({ id })
-    .update({ failed_attempts: db.raw('failed_attempts + 1'), locked_until: lockUntil, updated_at: new Date() })
+    .update({ failed_attempts: restart ? 1 : db.raw('failed_attempts + 1'), locked_until: lockUntil, updated_at: new Date() })
 }
 
 export async function recordSuccessfulLogin(db: Db, id: number): Promise<void> {

@@ -1,6 +1,7 @@
 import type { CookieOptions, RequestHandler, Response } from 'express'
 import type { Db } from '../db/knex'
 import { findUserById } from '../db/users'
+import { isSessionRevoked } from '../db/revoked-sessions'
 import { unauthorized } from '../errors'
 import {
   SESSION_COOKIE,
@@ -24,8 +25,8 @@ export function sessionCookieOptions(settings: SessionCookieSettings): CookieOpt
   }
 }
 
-export function setSessionCookie(res: Response, userId: number, role: Role, settings: SessionCookieSettings): void {
-  res.cookie(SESSION_COOKIE, signSessionToken(userId, role, settings), sessionCookieOptions(settings))
+export function setSessionCookie(res: Response, userId: number, role: Role, settings: SessionCookieSettings, sessionId?: string): void {
+  res.cookie(SESSION_COOKIE, signSessionToken(userId, role, settings, sessionId), sessionCookieOptions(settings))
 }
 
 /**
@@ -39,11 +40,13 @@ export function authenticate(db: Db, settings: SessionCookieSettings): RequestHa
     if (typeof token !== 'string' || token.length === 0) throw unauthorized()
     const claims = verifySessionToken(token, settings.secret)
     if (!claims) throw unauthorized('Your session has expired or is invalid. Please sign in again.')
+    if (await isSessionRevoked(db, claims.sid)) throw unauthorized('You have signed out. Please sign in again.')
     const user = await findUserById(db, Number(claims.sub))
     if (!user || !user.active) throw unauthorized('This account is not active.')
     req.user = { id: user.id, email: user.email, displayName: user.displayName, role: user.role }
+    req.session = { id: claims.sid, expiresAt: new Date(claims.exp * 1000) }
     const halfLifeSeconds = (settings.lifetimeMinutes * 60) / 2
-    if (claims.exp - Date.now() / 1000 < halfLifeSeconds) setSessionCookie(res, user.id, user.role, settings)
+    if (claims.exp - Date.now() / 1000 < halfLifeSeconds) setSessionCookie(res, user.id, user.role, settings, claims.sid)
     next()
   }
 }

@@ -12,6 +12,12 @@ function isDuplicateEntry(error: unknown): error is MysqlError {
   return typeof error === 'object' && error !== null && (error as MysqlError).code === 'ER_DUP_ENTRY'
 }
 
+/** A write that a foreign key refused, e.g. a row deleted while another was created against it. */
+function isForeignKeyRefusal(error: unknown): boolean {
+  const code = typeof error === 'object' && error !== null ? (error as MysqlError).code : undefined
+  return code === 'ER_ROW_IS_REFERENCED_2' || code === 'ER_NO_REFERENCED_ROW_2'
+}
+
 interface BodyParserError {
   type?: string
   status?: number
@@ -28,6 +34,10 @@ export function errorHandler(exposeInternals: boolean): ErrorRequestHandler {
     if (error instanceof ZodError) {
       const details = zodDetails(error)
       res.status(400).json({ error: { code: 'validation_failed', message: Object.values(details).flat()[0] ?? 'Invalid input.', details } })
+      return
+    }
+    if (isForeignKeyRefusal(error)) {
+      res.status(409).json({ error: { code: 'conflict', message: 'Other records still refer to this one, or the one it refers to is gone.' } })
       return
     }
     if (isDuplicateEntry(error)) {

@@ -76,7 +76,10 @@ export function uploadsOf(files: unknown): StreamedUpload[] {
 export function uploadErrorHandler(maxMegabytes: number): ErrorRequestHandler {
   return (error, _req, _res, next) => {
     if (!(error instanceof multer.MulterError)) {
-      next(error)
+      // Multer marks every error it aborted an upload with (busboy's "Unexpected end of form",
+      // a malformed part header): the client sent a broken body, not a server fault.
+      const fromMultipart = typeof error === 'object' && error !== null && 'storageErrors' in error
+      next(fromMultipart ? new HttpError(400, 'upload_refused', `The upload could not be read: ${(error as Error).message}.`) : error)
       return
     }
     const messages: Record<string, [number, string]> = {

@@ -5,8 +5,7 @@ import { validate } from '../middleware/validate'
 import { setSessionCookie, type SessionCookieSettings } from '../middleware/authenticate'
 import { SESSION_COOKIE } from '../auth/session-token'
 import { loginBody } from '../schemas/auth'
-import { login } from '../services/auth'
-import { audit } from '../services/audit'
+import { login, logout } from '../services/auth'
 import { actorOf } from './actor'
 
 export interface AuthRouterOptions {
@@ -34,7 +33,7 @@ export function authRouter(options: AuthRouterOptions): Router {
   })
 
   router.post('/logout', options.authenticate, async (req, res) => {
-    await audit(options.db, actorOf(req), 'logout', 'user', req.user?.id ?? null, 'Signed out')
+    await logout(options.db, actorOf(req), req.session ?? null, options.session.lifetimeMinutes)
     res.clearCookie(SESSION_COOKIE, { path: '/', httpOnly: true, sameSite: 'strict', secure: options.session.secureCookie })
     res.status(204).end()
   })

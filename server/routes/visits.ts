@@ -5,7 +5,7 @@ import { validate } from '../middleware/validate'
 import { requirePermission } from '../middleware/require-permission'
 import { idParam } from '../schemas/common'
 import { patchVisitBody } from '../schemas/visits'
-import { getVisit, patchVisit } from '../services/visits'
+import { getVisit, loadVisibleVisit, patchVisit } from '../services/visits'
 import { actorOf } from './actor'
 import type { FileStore } from '../storage/file-store'
 import { filmUpload, uploadErrorHandler, uploadsOf } from '../middleware/upload'
@@ -33,11 +33,15 @@ export function visitsRouter(db: Db, options: VisitsRouterOptions): Router {
     res.json(await listVisitImages(db, actorOf(req), res.locals.params.id))
   })
 
-  // Permission and id are checked before multer streams anything to disk.
+  // Permission, id and the visit itself are checked before multer streams anything to disk.
   router.post(
     '/:id/images',
     requirePermission('image:upload'),
     validate('params', idParam),
+    async (req, res, next) => {
+      await loadVisibleVisit(db, actorOf(req), res.locals.params.id)
+      next()
+    },
     filmUpload(options.uploadTmpDir, options.uploadMaxMb),
     async (req, res) => {
       const files = uploadsOf(req.files)

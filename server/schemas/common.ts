@@ -9,7 +9,11 @@ export const isoDate = z
     return !Number.isNaN(date.getTime()) && date.toISOString().slice(0, 10) === text
   }, 'is not a real calendar date')
 
-export const notInFuture = (text: string) => text <= new Date().toISOString().slice(0, 10)
+/**
+ * Not after today anywhere on Earth: the server runs in UTC while a clinic east of it is already
+ * in tomorrow, so one day of slack keeps a same-day visit valid in the local morning.
+ */
+export const notInFuture = (text: string) => text <= new Date(Date.now() + 86_400_000).toISOString().slice(0, 10)
 
 export const idParam = z.object({
   id: z.coerce.number({ error: 'id must be a number' }).int('id must be a whole number').positive('id must be positive'),

@@ -21,7 +21,7 @@ function checkInterval(value: Partial<VisitInput>, ctx: z.RefinementCtx): void {
   if (value.visitKind === 'follow-up' && (value.monthsSinceSurgery === undefined || value.monthsSinceSurgery === null)) {
     ctx.addIssue({ code: 'custom', path: ['monthsSinceSurgery'], message: 'is required for a follow-up visit' })
   }
-  if (value.visitKind && value.visitKind !== 'follow-up' && value.monthsSinceSurgery) {
+  if (value.visitKind && value.visitKind !== 'follow-up' && value.monthsSinceSurgery !== undefined && value.monthsSinceSurgery !== null) {
     ctx.addIssue({ code: 'custom', path: ['monthsSinceSurgery'], message: 'applies to follow-up visits only' })
   }
 }

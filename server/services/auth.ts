@@ -3,6 +3,8 @@ import type { Db } from '../db/knex'
 import { findUserForLogin, recordFailedLogin, recordSuccessfulLogin } from '../db/users'
 import { HttpError } from '../errors'
 import { insertAuditEvent } from '../db/audit'
+import { revokeSession } from '../db/revoked-sessions'
+import { audit, type Actor } from './audit'
 import type { LoginInput, SessionUser } from '../../shared/types/api'
 
 /** One message for every failure, so the answer never tells which accounts exist or are locked. */
@@ -19,11 +21,14 @@ export async function login(db: Db, input: LoginInput, maxFailures: number, ip: 
   const user = await findUserForLogin(db, input.email)
   const passwordMatches = await bcrypt.compare(input.password, user?.passwordHash ?? DUMMY_HASH)
   const locked = user?.lockedUntil !== null && user?.lockedUntil !== undefined && user.lockedUntil > new Date()
+  // Once a lock has run out, counting starts again from zero.
+  const lockExpired = user?.lockedUntil !== null && user?.lockedUntil !== undefined && !locked
   if (!user || !user.active || locked || !passwordMatches) {
     if (user && user.active && !locked) {
-      const reachesLimit = user.failedAttempts + 1 >= maxFailures
+      const failuresSoFar = lockExpired ? 0 : user.failedAttempts
+      const reachesLimit = failuresSoFar + 1 >= maxFailures
       const lockUntil = reachesLimit ? new Date(Date.now() + LOCKOUT_MINUTES * 60_000) : null
-      await recordFailedLogin(db, user.id, lockUntil)
+      await recordFailedLogin(db, user.id, lockUntil, lockExpired)
       if (reachesLimit) {
         await insertAuditEvent(db, { userId: user.id, action: 'lockout', entity: 'user', entityId: user.id, summary: `Locked for ${LOCKOUT_MINUTES} minutes after ${maxFailures} failed sign-ins`, ip })
       }
@@ -38,4 +43,16 @@ export async function login(db: Db, input: LoginInput, maxFailures: number, ip: 
 
 export async function hashPassword(password: string): Promise<string> {
   return bcrypt.hash(password, 10)
+}
+
+/**
+ * Ends a sign-in. Tokens are stateless, so the session id is refused until the latest token of
+ * that session would have expired (a renewal extends it by the lifetime at most).
+ */
+export async function logout(db: Db, actor: Actor, session: { id: string; expiresAt: Date } | null, lifetimeMinutes: number): Promise<void> {
+  if (session) {
+    const latestExpiry = new Date(Math.max(session.expiresAt.getTime(), Date.now() + lifetimeMinutes * 60_000))
+    await revokeSession(db, session.id, latestExpiry)
+  }
+  await audit(db, actor, 'logout', 'user', actor.user.id, 'Signed out')
 }

@@ -9,7 +9,7 @@ import {
   type PatientRecord,
 } from '../db/patients'
 import { deidentifiedAgeInYears } from '../db/rows'
-import { conflict, notFound } from '../errors'
+import { badRequest, conflict, notFound } from '../errors'
 import { roleCan } from '../../shared/types/permissions'
 import type {
   DeidentifiedPatient,
@@ -136,6 +136,9 @@ export async function patchPatient(db: Db, actor: Actor, id: number, patch: Pati
     if (!current) throw notFound('patient')
     const { version, ...fields } = patch
     if (fields.recordNumber !== undefined) await assertRecordNumberFree(trx, fields.recordNumber, id)
+    if (fields.birthDate !== undefined && current.firstVisitDate !== null && fields.birthDate > current.firstVisitDate) {
+      throw badRequest('birthDate: cannot be after the first visit', { birthDate: ['birthDate: cannot be after the first visit'] })
+    }
     const changed = await updatePatient(trx, id, version, fields)
     if (!changed) {
       throw conflict('Someone else changed this patient since you opened it. Reload to see their changes.', {

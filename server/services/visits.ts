@@ -105,6 +105,11 @@ export async function patchVisit(db: Db, actor: Actor, visitId: number, patch: V
         monthsSinceSurgery: ['monthsSinceSurgery: is required for a follow-up visit'],
       })
     }
+    if (kind !== 'follow-up' && fields.monthsSinceSurgery !== undefined && fields.monthsSinceSurgery !== null) {
+      throw badRequest('monthsSinceSurgery: applies to follow-up visits only', {
+        monthsSinceSurgery: ['monthsSinceSurgery: applies to follow-up visits only'],
+      })
+    }
     if (fields.visitDate) assertAfterBirth(fields.visitDate, patient)
     // Changing the kind away from follow-up clears the interval rather than leaving a stale one.
     const monthsSinceSurgery = kind === 'follow-up' ? months : null

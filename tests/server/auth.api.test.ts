@@ -172,7 +172,7 @@ describe('session tokens', () => {
   it('renews a token past half its lifetime (sliding expiry)', async () => {
     const { app, config } = buildTestApp(db)
     const user = await createTestUser(db, config, 'fellow')
-    const old = jwt.sign({ role: 'fellow', iat: Math.floor(Date.now() / 1000) - 20 * 60, exp: Math.floor(Date.now() / 1000) + 10 * 60 }, config.JWT_SECRET, { subject: String(user.id) })
+    const old = jwt.sign({ role: 'fellow', sid: 'a1b2c3d4e5f60718293a4b5c6d7e8f90', iat: Math.floor(Date.now() / 1000) - 20 * 60, exp: Math.floor(Date.now() / 1000) + 10 * 60 }, config.JWT_SECRET, { subject: String(user.id) })
     const res = await request(app).get('/api/auth/me').set('Cookie', `${SESSION_COOKIE}=${old}`)
     expect(res.status).toBe(200)
     expect(sessionCookieOf(res)).toBeDefined()
@@ -189,10 +189,50 @@ describe('session tokens', () => {
     expect(await db(TABLES.auditEvents).where({ action: 'logout', user_id: user.id })).toHaveLength(1)
   })
 
+  it('refuses the signed-out token even if a copy of it was kept', async () => {
+    const { app, config } = buildTestApp(db)
+    const user = await createTestUser(db, config, 'surgeon')
+    await request(app).post('/api/auth/logout').set('Cookie', user.cookie).expect(204)
+    const res = await request(app).get('/api/auth/me').set('Cookie', user.cookie)
+    expect(res.status).toBe(401)
+    expect(res.body.error.message).toMatch(/signed out/)
+    // A new sign-in of the same user is a new session and works.
+    const login = await request(app).post('/api/auth/login').send({ email: user.email, password: user.password })
+    const cookie = sessionCookieOf(login)!.split(';')[0]!
+    expect((await request(app).get('/api/auth/me').set('Cookie', cookie)).status).toBe(200)
+  })
+
+  it('refuses a token without a session id', async () => {
+    const { app, config } = buildTestApp(db)
+    const user = await createTestUser(db, config, 'fellow')
+    const legacy = jwt.sign({ role: 'fellow' }, config.JWT_SECRET, { subject: String(user.id), expiresIn: 600 })
+    expect((await request(app).get('/api/auth/me').set('Cookie', `${SESSION_COOKIE}=${legacy}`)).status).toBe(401)
+  })
+
   it('refuses a cross-site write even with a valid session', async () => {
     const { app, config } = buildTestApp(db)
     const user = await createTestUser(db, config, 'surgeon')
     const res = await request(app).post('/api/patients').set('Cookie', user.cookie).set('Sec-Fetch-Site', 'cross-site').send({})
+    expect(res.status).toBe(403)
+  })
+})
+
+describe('lockout expiry', () => {
+  it('counts failures from zero again once a lock has run out', async () => {
+    const { app, config } = buildTestApp(db, { LOGIN_MAX_FAILURES: '3' })
+    const user = await createTestUser(db, config, 'fellow')
+    await db(TABLES.users).where({ id: user.id }).update({ failed_attempts: 3, locked_until: new Date(Date.now() - 60_000) })
+    await request(app).post('/api/auth/login').send({ email: user.email, password: 'wrong' }).expect(401)
+    const row = await db(TABLES.users).where({ id: user.id }).first()
+    expect(row.failed_attempts).toBe(1)
+    expect(new Date(row.locked_until).getTime()).toBeLessThan(Date.now())
+    expect((await request(app).post('/api/auth/login').send({ email: user.email, password: user.password })).status).toBe(200)
+  })
+
+  it('refuses a write marked as coming from a sibling site', async () => {
+    const { app, config } = buildTestApp(db)
+    const user = await createTestUser(db, config, 'surgeon')
+    const res = await request(app).post('/api/patients').set('Cookie', user.cookie).set('Sec-Fetch-Site', 'same-site').send({})
     expect(res.status).toBe(403)
   })
 })

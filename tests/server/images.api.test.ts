@@ -261,3 +261,26 @@ describe('PATCH /api/images/:id/calibration', () => {
     expect((await db(TABLES.images).where({ id: image.id }).first()).spacing_source).toBe('none')
   })
 })
+
+describe('broken uploads and missing files', () => {
+  it('answers 400 to a multipart body cut short', async () => {
+    const boundary = '----endplate-test'
+    const body = `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="cut.dcm"\r\nContent-Type: application/dicom\r\n\r\nDICM-partial`
+    const res = await request(app)
+      .post(`/api/visits/${visitId}/images`)
+      .set('Cookie', users.fellow.cookie)
+      .set('Content-Type', `multipart/form-data; boundary=${boundary}`)
+      .send(body)
+    expect(res.status).toBe(400)
+    expect(res.body.error.code).toBe('upload_refused')
+    expect(filesOnDisk()).toEqual([])
+  })
+
+  it('answers 404 without cache headers when a rendition is missing from storage', async () => {
+    const [image] = (await upload(users.fellow, files.png, 'film.png', { view: 'ap' })).body
+    for (const path of filesOnDisk()) if (path.includes('thumbnail')) rmSync(path)
+    const res = await request(app).get(`/api/images/${image.id}/files/thumbnail`).set('Cookie', users.fellow.cookie)
+    expect(res.status).toBe(404)
+    expect(res.headers['cache-control'] ?? 'none').not.toMatch(/immutable/)
+  })
+})

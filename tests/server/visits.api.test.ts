@@ -86,3 +86,22 @@ describe('visits', () => {
     expect((await request(app).get('/api/visits/777777').set('Cookie', users.fellow.cookie)).status).toBe(404)
   })
 })
+
+describe('visit and patient edits that would make the record inconsistent', () => {
+  it('refuses an interval of 0 months on a pre-op visit and on a patch to a non-follow-up', async () => {
+    const created = await request(app).post(`/api/patients/${patientId}/visits`).set('Cookie', users.fellow.cookie).send({ visitDate: '2026-01-01', visitKind: 'pre-op', monthsSinceSurgery: 0 })
+    expect(created.status).toBe(400)
+    expect(created.body.error.details.monthsSinceSurgery).toContain('monthsSinceSurgery: applies to follow-up visits only')
+    const visitId = await insertTestVisit(db, patientId, users.fellow.id)
+    const patched = await request(app).patch(`/api/visits/${visitId}`).set('Cookie', users.fellow.cookie).send({ monthsSinceSurgery: 6, version: 1 })
+    expect(patched.status).toBe(400)
+    expect((await db(TABLES.visits).where({ id: visitId }).first()).months_since_surgery).toBeNull()
+  })
+
+  it('refuses a birth date after the patient\'s first visit', async () => {
+    await insertTestVisit(db, patientId, users.fellow.id, '2000-03-01')
+    const res = await request(app).patch(`/api/patients/${patientId}`).set('Cookie', users.fellow.cookie).send({ birthDate: '2001-01-01', version: 1 })
+    expect(res.status).toBe(400)
+    expect(res.body.error.details.birthDate).toContain('birthDate: cannot be after the first visit')
+  })
+})
