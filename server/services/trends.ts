@@ -142,5 +142,5 @@ export async function getTrends(db: Db, actor: Actor, patientId: number): Promis
       `Viewed measurement trends of patient ${patient.recordNumber}`,
     )
   }
-  return { patientId, visits, series: [...slipSeries, lordosis, ...treatedSeries] }
+  return { patientId, visits, series: [lordosis, ...slipSeries, ...treatedSeries] }
 }

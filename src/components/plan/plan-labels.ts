@@ -1,0 +1,63 @@
+import type { PlannedTreatment, ReadingStatus } from '@shared/types/domain'
+import type { PiLlBand, PlanCheckFlag, PlanCheckId } from '@shared/types/measurement'
+import type { MeasureSource } from '@shared/types/plans'
+import { TEMPLATE_LABELS } from '@shared/readings/templates'
+import { SPACING_SOURCE_SHORT, VISIT_KIND_LABELS } from '@/utils/format'
+
+export const TREATMENT_LABELS: Record<PlannedTreatment, string> = {
+  none: 'No treatment',
+  decompression: 'Decompression',
+  'disc-replacement': 'Disc replacement',
+  'interbody-fusion': 'Interbody fusion',
+  'posterior-fusion': 'Posterior fusion',
+}
+
+/** Short names for the table; the engine's full label and source go in the tooltip. */
+export const CHECK_SHORT_LABELS: Record<PlanCheckId, string> = {
+  'pars-defect': 'Pars defect',
+  'slip-grade-ii-or-more': 'Slip grade II or more',
+  'facet-degeneration': 'Facet degeneration',
+  'dynamic-translation-over-5mm': 'Translation over 5 mm',
+  osteoporosis: 'Osteoporosis',
+  'residual-disc-height-under-3mm': 'Disc height under 3 mm',
+}
+
+export type CheckState = 'flagged' | 'clear' | 'unknown'
+
+export function checkState(check: PlanCheckFlag): CheckState {
+  if (check.flagged === null) return 'unknown'
+  return check.flagged ? 'flagged' : 'clear'
+}
+
+export const CHECK_STATE_LABELS: Record<CheckState, string> = {
+  flagged: 'Flagged',
+  clear: 'Not flagged',
+  unknown: 'Not recorded',
+}
+
+const STATUS_LABELS: Record<ReadingStatus, string> = {
+  draft: 'draft',
+  submitted: 'submitted',
+  signed: 'signed',
+}
+
+/** "Reading 12 · Slip grade · submitted · Pre-op" (plus the mm scale when it matters). */
+export function sourceText(source: MeasureSource): string {
+  const scale = source.calibrationSource
+    ? ` · ${SPACING_SOURCE_SHORT[source.calibrationSource]}`
+    : ''
+  return `Reading ${source.readingId} · ${TEMPLATE_LABELS[source.template]} · ${STATUS_LABELS[source.status]} · ${VISIT_KIND_LABELS[source.visitKind]}${scale}`
+}
+
+export const BAND_LABELS: Record<PiLlBand, string> = {
+  '0': 'band 0 (under 10°)',
+  '+': 'band + (10–20°)',
+  '++': 'band ++ (over 20°)',
+}
+
+/** Fixed digits, with no "-0.0" for a value that rounds to zero. */
+export function formatNumber(value: number | null | undefined, digits = 1): string {
+  if (value === null || value === undefined) return '—'
+  const text = value.toFixed(digits)
+  return Number(text) === 0 ? (0).toFixed(digits) : text
+}
