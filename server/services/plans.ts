@@ -13,6 +13,7 @@ import { conflict } from '../errors'
 import { checkSegmentPlan, estimatePlannedLordosis } from '../../shared/measurement/plan-checks'
 import { piLlBandFromMismatchDeg } from '../../shared/measurement/alignment'
 import { MOTION_SEGMENTS, type MotionSegment } from '../../shared/types/domain'
+import { roleCan } from '../../shared/types/permissions'
 import type {
   PatientPlan,
   PlanLordosis,
@@ -124,9 +125,14 @@ async function buildPlan(db: Db, patient: PatientRecord): Promise<PatientPlan> {
   }
 }
 
-/** The plan carries no identity (segments, findings, measures), so researchers may read it too. */
+/**
+ * The plan carries no identity (segments, findings, measures), so researchers may read it too;
+ * they get no save times, which could date the surgery.
+ */
 export async function getPlan(db: Db, actor: Actor, patientId: number): Promise<PatientPlan> {
-  return buildPlan(db, await loadVisiblePatient(db, actor, patientId))
+  const plan = await buildPlan(db, await loadVisiblePatient(db, actor, patientId))
+  if (roleCan(actor.user.role, 'patient:identify')) return plan
+  return { ...plan, segments: plan.segments.map((segment) => ({ ...segment, updatedAt: null })) }
 }
 
 function describe(input: PlanSegmentInput): string {

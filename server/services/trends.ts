@@ -139,7 +139,7 @@ export async function getTrends(db: Db, actor: Actor, patientId: number): Promis
       'view',
       'patient',
       patientId,
-      `Viewed measurement trends of patient ${patient.recordNumber}`,
+      `Viewed measurement trends of patient ${patient.studyCode}`,
     )
   }
   return { patientId, visits, series: [lordosis, ...slipSeries, ...treatedSeries] }

@@ -156,8 +156,16 @@ describe('GET /api/patients/:id/plan', () => {
     expect(plan.evidenceNote).toMatch(/submitted or signed/)
   })
 
-  it('lets a researcher of the study read the plan, and refuses the administrator', async () => {
-    expect((await getPlan(users.researcher)).status).toBe(200)
+  it('lets a researcher of the study read the plan without save times, and refuses the administrator', async () => {
+    await putSegment('L4-L5', { treatment: 'decompression' })
+    const researcher = await getPlan(users.researcher)
+    expect(researcher.status).toBe(200)
+    expect(segmentOf(researcher.body, 'L4-L5')).toMatchObject({
+      treatment: 'decompression',
+      version: 1,
+      updatedAt: null,
+    })
+    expect(segmentOf((await getPlan()).body, 'L4-L5').updatedAt).toMatch(/^\d{4}-/)
     expect((await getPlan(users.fellow)).status).toBe(200)
     const admin = await getPlan(users.admin)
     expect(admin.status).toBe(403)
