@@ -11,6 +11,7 @@ export type ImageErrorCode =
   | 'corrupt-dicom'
   | 'corrupt-image'
   | 'zero-size-image'
+  | 'too-many-pixels'
 
 export class ImageError extends Error {
   readonly code: ImageErrorCode
@@ -28,6 +29,21 @@ export class ImageError extends Error {
     this.status = code.startsWith('unsupported-') ? 415 : 422
     this.details = details
   }
+}
+
+/**
+ * The largest film accepted, in pixels: a 43 × 43 cm detector at 0.1 mm is about 18.5 MP and
+ * long-length films stitch a few of those, so 80 MP leaves room while a small compressed file
+ * cannot unpack into gigabytes of memory.
+ */
+export const MAX_FILM_PIXELS = 80_000_000
+
+export function tooManyPixels(width: number, height: number): ImageError {
+  return new ImageError(
+    'too-many-pixels',
+    `The film is ${width} × ${height} pixels, more than the ${MAX_FILM_PIXELS / 1e6} million Endplate accepts.`,
+    { width, height },
+  )
 }
 
 export function isImageError(error: unknown): error is ImageError {

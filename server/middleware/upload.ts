@@ -5,7 +5,7 @@ import { join } from 'node:path'
 import { pipeline } from 'node:stream/promises'
 import { Transform } from 'node:stream'
 import multer, { type StorageEngine } from 'multer'
-import type { ErrorRequestHandler, RequestHandler } from 'express'
+import type { ErrorRequestHandler, Request, RequestHandler } from 'express'
 import { HttpError } from '../errors'
 
 /** What the upload storage hands the route for each file. */
@@ -21,12 +21,18 @@ export interface StreamedUpload {
  * A multer storage engine that streams each file to a random temporary name while computing its
  * SHA-256, so the film can be filed by content hash without reading it twice.
  */
+/** Every temporary file a request started, so a broken upload can remove even half-written ones. */
+const TEMP_PATHS = Symbol('uploadTempPaths')
+const ABANDONED = Symbol('uploadAbandoned')
+type TrackedRequest = Request & { [TEMP_PATHS]?: string[]; [ABANDONED]?: boolean }
+
 function hashingDiskStorage(tmpDir: string): StorageEngine {
   return {
-    _handleFile(_req, file, callback) {
+    _handleFile(req, file, callback) {
       // Made on every upload: an operator clearing the uploads folder must not break the next one.
       mkdirSync(tmpDir, { recursive: true })
       const path = join(tmpDir, `${randomUUID()}.upload`)
+      ;((req as TrackedRequest)[TEMP_PATHS] ??= []).push(path)
       const hash = createHash('sha256')
       let size = 0
       const counter = new Transform({
@@ -37,7 +43,11 @@ function hashingDiskStorage(tmpDir: string): StorageEngine {
         },
       })
       pipeline(file.stream, counter, createWriteStream(path))
-        .then(() => callback(null, { path, size, sha256: hash.digest('hex') } as Partial<Express.Multer.File>))
+        .then(async () => {
+          // The request failed while this file was still being written: nobody will claim it.
+          if ((req as TrackedRequest)[ABANDONED]) await rm(path, { force: true })
+          callback(null, { path, size, sha256: hash.digest('hex') } as Partial<Express.Multer.File>)
+        })
         .catch(async (error: unknown) => {
           await rm(path, { force: true })
           callback(error as Error)
@@ -74,18 +84,34 @@ export function uploadsOf(files: unknown): StreamedUpload[] {
 
 /** Multer's own errors as clear 4xx answers (it has already removed the partial files). */
 export function uploadErrorHandler(maxMegabytes: number): ErrorRequestHandler {
-  return (error, _req, _res, next) => {
+  return async (error, req, _res, next) => {
+    // Multer removes the files it finished; a file cut off mid-stream is removed here.
+    ;(req as TrackedRequest)[ABANDONED] = true
+    await Promise.all(
+      ((req as TrackedRequest)[TEMP_PATHS] ?? []).map((path) => rm(path, { force: true })),
+    )
     if (!(error instanceof multer.MulterError)) {
       // Multer marks every error it aborted an upload with (busboy's "Unexpected end of form",
       // a malformed part header): the client sent a broken body, not a server fault.
       const fromMultipart = typeof error === 'object' && error !== null && 'storageErrors' in error
-      next(fromMultipart ? new HttpError(400, 'upload_refused', `The upload could not be read: ${(error as Error).message}.`) : error)
+      next(
+        fromMultipart
+          ? new HttpError(
+              400,
+              'upload_refused',
+              `The upload could not be read: ${(error as Error).message}.`,
+            )
+          : error,
+      )
       return
     }
     const messages: Record<string, [number, string]> = {
       LIMIT_FILE_SIZE: [413, `A file is larger than the ${maxMegabytes} MB limit.`],
       LIMIT_FILE_COUNT: [400, 'At most 20 files can be uploaded at once.'],
-      LIMIT_UNEXPECTED_FILE: [400, `Files must be sent in the multipart field "file" (got "${error.field ?? ''}").`],
+      LIMIT_UNEXPECTED_FILE: [
+        400,
+        `Files must be sent in the multipart field "file" (got "${error.field ?? ''}").`,
+      ],
       LIMIT_FIELD_COUNT: [400, 'Too many form fields.'],
     }
     const [status, message] = messages[error.code] ?? [400, `Upload refused: ${error.message}`]

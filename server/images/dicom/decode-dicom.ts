@@ -1,5 +1,5 @@
 import type { DecodedFilm } from '../decoded-film'
-import { ImageError } from '../image-error'
+import { ImageError, MAX_FILM_PIXELS, tooManyPixels } from '../image-error'
 import { decompressFrame } from './codecs'
 import { readDicomHeader, type DicomHeader, type PixelModule } from './dicom-header'
 import { encapsulatedFrameBytes, nativeFrameBytes } from './frame-bytes'
@@ -89,6 +89,7 @@ export async function decodeDicom(bytes: Uint8Array): Promise<DecodedFilm> {
   const encoding = pixelEncodingOf(header.transferSyntaxUid)
   const { pixel } = header
   checkPixelModule(pixel)
+  if (pixel.rows * pixel.columns > MAX_FILM_PIXELS) throw tooManyPixels(pixel.columns, pixel.rows)
   const frame = await readFrameSamples(dataSet, header, encoding)
   const mapping = buildPixelValueMapping(
     {

@@ -1,6 +1,6 @@
 import sharp, { type Metadata } from 'sharp'
 import type { DecodedFilm } from '../decoded-film'
-import { ImageError } from '../image-error'
+import { ImageError, MAX_FILM_PIXELS, tooManyPixels } from '../image-error'
 import type { FilmFileType } from '../sniff-file-type'
 
 type RasterType = Exclude<FilmFileType, 'dicom'>
@@ -33,6 +33,8 @@ export async function decodeRaster(bytes: Uint8Array, type: RasterType): Promise
       `The PNG image is ${ihdr.width} × ${ihdr.height} pixels.`,
     )
   }
+  // A PNG says its size up front: refuse an oversized one even before sharp opens it.
+  if (ihdr && ihdr.width * ihdr.height > MAX_FILM_PIXELS) throw tooManyPixels(ihdr.width, ihdr.height)
   // failOn 'truncated' rejects cut-off files instead of padding them with grey.
   const open = () => sharp(bytes, { failOn: 'truncated' }).autoOrient()
   let metadata: Metadata
@@ -44,6 +46,9 @@ export async function decodeRaster(bytes: Uint8Array, type: RasterType): Promise
   if (!metadata.width || !metadata.height) {
     throw new ImageError('zero-size-image', `The ${type.toUpperCase()} image has no pixels.`)
   }
+  // Checked from the header before any pixel is decoded.
+  if (metadata.width * metadata.height > MAX_FILM_PIXELS)
+    throw tooManyPixels(metadata.width, metadata.height)
   const sixteenBit = metadata.depth === 'ushort'
   try {
     const grey = open().flatten({ background: '#000000' })
