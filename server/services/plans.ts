@@ -30,6 +30,9 @@ import {
   segmentEvidence,
 } from './plans-evidence'
 
+const RECORDED_INSTABILITY_SOURCE =
+  'common practice: a disc replacement needs a stable segment; the measured criterion is the translation check'
+
 const either = (left: boolean | null, right: boolean | null): boolean | null =>
   left === null || right === null ? null : left || right
 
@@ -46,12 +49,13 @@ function toPlanSegment(
   const parsDefectRight = finding(record?.parsDefectRight)
   const facetDegeneration = finding(record?.facetDegeneration)
   const treatment = record?.treatment ?? 'none'
+  const dynamicInstability = finding(record?.dynamicInstability)
   return {
     segment,
     parsDefectLeft,
     parsDefectRight,
     facetDegeneration,
-    dynamicInstability: finding(record?.dynamicInstability),
+    dynamicInstability,
     treatment,
     implantLordosisDeg: record?.implantLordosisDeg ?? null,
     implantHeightMm: record?.implantHeightMm ?? null,
@@ -68,6 +72,14 @@ function toPlanSegment(
       osteoporosis: patient.osteoporosis,
       residualDiscHeightMm: evidence.residualDiscHeightMm?.value ?? null,
     }),
+    recordedInstability:
+      treatment === 'disc-replacement'
+        ? {
+            label: 'instability on dynamic films recorded at a disc replacement level',
+            flagged: dynamicInstability,
+            source: RECORDED_INSTABILITY_SOURCE,
+          }
+        : null,
   }
 }
 

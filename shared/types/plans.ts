@@ -61,6 +61,19 @@ export interface PlanSegment {
   evidence: SegmentEvidence
   /** Disc-replacement checks; empty for other treatments. */
   checks: PlanCheckFlag[]
+  /**
+   * Disc replacement only: instability recorded as a finding (the measured check is translation
+   * over 5 mm). Null for other treatments.
+   */
+  recordedInstability: RecordedFindingFlag | null
+}
+
+/** A flag raised by a recorded finding rather than a measured value. */
+export interface RecordedFindingFlag {
+  label: string
+  /** Null when the segment was never saved (not recorded). */
+  flagged: boolean | null
+  source: string
 }
 
 /** The plan's expected L1–S1 lordosis beside the target from PI, with what they rest on. */

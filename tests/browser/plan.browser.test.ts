@@ -145,4 +145,24 @@ describe('The plan and trends on the Patient screen in Chromium', () => {
     await page.screenshot({ path: screenshotPath('plan-conflict') })
     await page.close()
   })
+
+  it('shows a fellow the plan read-only, and an empty trends state for a patient without readings', async () => {
+    await browser.clearCookies()
+    const [name, value] = fellowCookie.split('=') as [string, string]
+    await browser.addCookies([{ name, value, url: server.url }])
+    const page = await browser.newPage()
+    await page.goto(`${server.url}/patients/${hybridId}`)
+    await page.getByRole('heading', { name: 'Marchetti-Vance, Sofia' }).waitFor()
+    await page.getByText('Only surgeons change the plan.').waitFor()
+    await expect.poll(() => page.locator('[data-segment]').count()).toBe(5)
+    expect(await page.getByRole('button', { name: /^Save plan at/ }).count()).toBe(0)
+    expect(await page.getByLabel('Pars defect, left at L5-S1').isDisabled()).toBe(true)
+    await page.getByRole('region', { name: 'Plan' }).screenshot({ path: screenshotPath('plan-fellow') })
+
+    const other = await db(TABLES.patients).where({ record_number: 'EPD-104211' }).first()
+    await page.goto(`${server.url}/patients/${other.id}`)
+    await page.getByTestId('trends-empty').waitFor()
+    await page.screenshot({ path: screenshotPath('plan-empty-patient'), fullPage: true })
+    await page.close()
+  })
 })

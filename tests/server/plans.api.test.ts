@@ -358,6 +358,28 @@ describe('plan checks from real readings', () => {
       source: SOURCES.parsDefect,
     })
     expect(checkOf(segment, 'osteoporosis')?.flagged).toBe(true)
+    expect(segment.recordedInstability?.flagged).toBe(false)
+  })
+
+  it('flags instability recorded on dynamic films at a disc replacement, as common practice', async () => {
+    const res = await putSegment('L4-L5', {
+      treatment: 'disc-replacement',
+      dynamicInstability: true,
+    })
+    const segment = segmentOf(res.body, 'L4-L5')
+    // Common practice (no published threshold): a disc replacement needs a stable segment.
+    expect(segment.recordedInstability).toMatchObject({
+      flagged: true,
+      source: expect.stringMatching(/^common practice/),
+    })
+    // The measured criterion stays unknown without a motion-pair reading.
+    expect(checkOf(segment, 'dynamic-translation-over-5mm')?.flagged).toBeNull()
+    const fused = await putSegment('L4-L5', {
+      treatment: 'interbody-fusion',
+      dynamicInstability: true,
+      version: 1,
+    })
+    expect(segmentOf(fused.body, 'L4-L5').recordedInstability).toBeNull()
   })
 
   it('leaves measured checks unknown (null, not false) when nothing measured the segment', async () => {

@@ -24,7 +24,7 @@ export const CHECK_SHORT_LABELS: Record<PlanCheckId, string> = {
 
 export type CheckState = 'flagged' | 'clear' | 'unknown'
 
-export function checkState(check: PlanCheckFlag): CheckState {
+export function checkState(check: Pick<PlanCheckFlag, 'flagged'>): CheckState {
   if (check.flagged === null) return 'unknown'
   return check.flagged ? 'flagged' : 'clear'
 }
@@ -60,4 +60,10 @@ export function formatNumber(value: number | null | undefined, digits = 1): stri
   if (value === null || value === undefined) return '—'
   const text = value.toFixed(digits)
   return Number(text) === 0 ? (0).toFixed(digits) : text
+}
+
+/** "12.3°" or "4.0 mm"; a bare dash when there is no value (no unit on nothing). */
+export function formatWithUnit(value: number | null | undefined, unit: '°' | ' mm' | ' %'): string {
+  const text = formatNumber(value)
+  return text === '—' ? text : `${text}${unit}`
 }
