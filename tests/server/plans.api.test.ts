@@ -244,6 +244,15 @@ describe('PUT /api/patients/:id/plan/:segment', () => {
     )
   })
 
+  it('lets only one of two simultaneous first saves through; the other is a 409', async () => {
+    const [a, b] = await Promise.all([
+      putSegment('L2-L3', { treatment: 'decompression' }),
+      putSegment('L2-L3', { treatment: 'interbody-fusion' }),
+    ])
+    expect([a.status, b.status].sort()).toEqual([200, 409])
+    expect(await planRows()).toBe(1)
+  })
+
   it('answers 409 when a version is sent for a segment that was never saved', async () => {
     const res = await putSegment('L1-L2', { version: 3 })
     expect(res.status).toBe(409)
