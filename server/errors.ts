@@ -24,5 +24,12 @@ export const notFound = (what: string) => new HttpError(404, 'not_found', `No su
 export const conflict = (message: string, details?: Record<string, string[]>) =>
   new HttpError(409, 'conflict', message, details)
 
-export const unsupportedMediaType = (message: string) =>
-  new HttpError(415, 'unsupported_media_type', message)
+/**
+ * Inside a visibility check, "the parent is not visible" becomes "this is not found" (so nothing
+ * leaks about records outside the actor's reach); any other failure, such as a lost database
+ * connection, stays what it is.
+ */
+export function asNotFound(error: unknown, what: string): never {
+  if (error instanceof HttpError && error.status === 404) throw notFound(what)
+  throw error
+}

@@ -1,6 +1,6 @@
 import type { Db } from './knex'
 import { TABLES } from './tables'
-import { toIsoDateTime, toIsoDateTimeOrNull } from './rows'
+import { parseJson, toIsoDateTime, toIsoDateTimeOrNull } from './rows'
 import type { ImageView, SpacingSource } from '../../shared/types/domain'
 import type { ManualCalibration } from '../../shared/types/api'
 
@@ -49,10 +49,6 @@ export interface ImageRow {
 
 type RawRow = Record<string, unknown>
 
-function parseJson<T>(value: unknown): T | null {
-  if (value === null || value === undefined) return null
-  return (typeof value === 'string' ? JSON.parse(value) : value) as T
-}
 
 function toImage(row: RawRow): ImageRow {
   return {
@@ -158,12 +154,6 @@ export async function updateImageCalibration(
   return changed === 1
 }
 
-export async function updateImageView(db: Db, id: number, expectedVersion: number, view: ImageView): Promise<boolean> {
-  const changed = await db(TABLES.images)
-    .where({ id, version: expectedVersion })
-    .update({ view, version: db.raw('version + 1'), updated_at: new Date() })
-  return changed === 1
-}
 
 export async function countReadingsOfImage(db: Db, imageId: number): Promise<number> {
   const [{ count }] = (await db(TABLES.readings)

@@ -1,6 +1,6 @@
 import type { Db } from './knex'
 import { TABLES } from './tables'
-import { toBoolean, toIsoDateTime, toIsoDateTimeOrNull } from './rows'
+import { parseJson, toBoolean, toIsoDateTime, toIsoDateTimeOrNull } from './rows'
 import type { ReadingStatus, ReadingTemplate } from '../../shared/types/domain'
 import type { LandmarkDocument } from '../../shared/types/landmarks'
 import type { ReadingCalibration, ReadingResults } from '../../shared/types/readings'
@@ -34,10 +34,6 @@ export interface ReadingRecord {
 
 type RawRow = Record<string, unknown>
 
-function parseJson<T>(value: unknown): T | null {
-  if (value === null || value === undefined) return null
-  return (typeof value === 'string' ? JSON.parse(value) : value) as T
-}
 
 const COLUMNS = [
   'r.id',

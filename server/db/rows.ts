@@ -38,3 +38,9 @@ export function ageInYears(birthDate: string, onDate: string): number {
 export function deidentifiedAgeInYears(birthDate: string, onDate: string): number {
   return Math.min(ageInYears(birthDate, onDate), 90)
 }
+
+/** JSON columns: mysql2 usually parses them, but MariaDB's LONGTEXT JSON can arrive as text. */
+export function parseJson<T>(value: unknown): T | null {
+  if (value === null || value === undefined) return null
+  return (typeof value === 'string' ? JSON.parse(value) : value) as T
+}

@@ -1,6 +1,6 @@
 import { Router } from 'express'
 import type { Db } from '../db/knex'
-import { listAuditEvents } from '../db/audit'
+import { readAuditTrail } from '../services/audit-trail'
 import { requirePermission } from '../middleware/require-permission'
 import { validate } from '../middleware/validate'
 import { auditQuery } from '../schemas/audit'
@@ -8,7 +8,7 @@ import { auditQuery } from '../schemas/audit'
 export function auditEventsRouter(db: Db): Router {
   const router = Router()
   router.get('/', requirePermission('audit:read'), validate('query', auditQuery), async (_req, res) => {
-    res.json(await listAuditEvents(db, res.locals.query))
+    res.json(await readAuditTrail(db, res.locals.query))
   })
   return router
 }

@@ -1,14 +1,10 @@
 import { Router } from 'express'
-import { z } from 'zod'
+import type { z } from 'zod'
 import { requirePermission } from '../middleware/require-permission'
 import { validate } from '../middleware/validate'
 import { computeFromDocument, computeWithUncertainty } from '../services/measurements'
+import { computeQuery } from '../schemas/measurements'
 
-const computeQuery = z.object({
-  uncertainty: z.enum(['true', 'false'], { error: 'must be true or false' }).optional(),
-  sigmaMm: z.coerce.number({ error: 'must be a number' }).positive('must be positive').max(20).optional(),
-  sigmaPx: z.coerce.number({ error: 'must be a number' }).positive('must be positive').max(100).optional(),
-})
 
 /** Stateless computation for any signed-in user; the engine validates the document itself. */
 export function measurementsRouter(): Router {

@@ -1,11 +1,17 @@
 import type { Db } from '../db/knex'
 import { insertAuditEvent } from '../db/audit'
 import type { SessionUser } from '../../shared/types/api'
+import { roleCan } from '../../shared/types/permissions'
 
 /** Who is acting and from where: passed from routes into services for the audit trail. */
 export interface Actor {
   user: SessionUser
   ip: string | null
+}
+
+/** Whether the actor may see names, record numbers and dates (else de-identified data only). */
+export function actorIdentifies(actor: Actor): boolean {
+  return roleCan(actor.user.role, 'patient:identify')
 }
 
 export type AuditAction = 'create' | 'update' | 'delete' | 'view' | 'sign' | 'submit' | 'export' | 'login' | 'login-failed' | 'logout' | 'lockout'

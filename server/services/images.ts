@@ -20,17 +20,15 @@ import { makeFilmRenditions, type FilmRenditions } from '../images/renditions'
 import { isImageError } from '../images/image-error'
 import type { DecodedFilm } from '../images/decoded-film'
 import type { StreamedUpload } from '../middleware/upload'
-import { badRequest, conflict, HttpError, notFound } from '../errors'
+import { asNotFound, badRequest, conflict, HttpError, notFound } from '../errors'
 import { IMAGE_VIEWS, type ImageView } from '../../shared/types/domain'
 import type { CalibrationInput, ImageRecord, PatientMismatch } from '../../shared/types/api'
-import { roleCan } from '../../shared/types/permissions'
-import { audit, type Actor } from './audit'
+import { actorIdentifies, audit, type Actor } from './audit'
 import { loadVisibleVisit } from './visits'
 import { comparePatient } from './patient-match'
 import { toImageRecord } from './image-dto'
 
-export const RENDITION_NAMES = ['display', 'preview', 'thumbnail', 'full-depth'] as const
-export type RenditionName = (typeof RENDITION_NAMES)[number]
+export type RenditionName = 'display' | 'preview' | 'thumbnail' | 'full-depth'
 
 const EXTENSIONS: Record<FileKind, string> = { dicom: 'dcm', png: 'png', jpeg: 'jpg', tiff: 'tif' }
 
@@ -54,7 +52,7 @@ const FIELD_WORDS: Record<PatientMismatch['differences'][number]['field'], strin
   studyDate: 'study date',
 }
 
-const identifies = (actor: Actor) => roleCan(actor.user.role, 'patient:identify')
+const identifies = actorIdentifies
 
 export interface UploadRequest {
   files: StreamedUpload[]
@@ -325,8 +323,8 @@ export async function loadVisibleImage(db: Db, actor: Actor, imageId: number): P
   if (!image) throw notFound('image')
   try {
     await loadVisibleVisit(db, actor, image.visitId)
-  } catch {
-    throw notFound('image')
+  } catch (error) {
+    return asNotFound(error, 'image')
   }
   return image
 }

@@ -10,7 +10,6 @@ import {
 } from '../db/patients'
 import { deidentifiedAgeInYears } from '../db/rows'
 import { badRequest, conflict, notFound } from '../errors'
-import { roleCan } from '../../shared/types/permissions'
 import type {
   DeidentifiedPatient,
   IdentifiedPatient,
@@ -20,7 +19,7 @@ import type {
   PatientPatch,
   PatientQuery,
 } from '../../shared/types/api'
-import { audit, type Actor } from './audit'
+import { actorIdentifies, audit, type Actor } from './audit'
 import { generateStudyCode } from './study-codes'
 
 export function toIdentifiedPatient(record: PatientRecord): IdentifiedPatient {
@@ -55,7 +54,7 @@ export function toDeidentifiedPatient(record: PatientRecord): DeidentifiedPatien
   }
 }
 
-const identifies = (actor: Actor) => roleCan(actor.user.role, 'patient:identify')
+const identifies = actorIdentifies
 
 /** Loads a patient the actor may see, or throws 404 (also for a researcher outside the study). */
 export async function loadVisiblePatient(db: Db, actor: Actor, id: number): Promise<PatientRecord> {

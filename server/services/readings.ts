@@ -12,7 +12,7 @@ import {
   type ReadingRecord,
 } from '../db/readings'
 import { findSiteSetting } from '../db/site-settings'
-import { badRequest, forbidden, HttpError, notFound } from '../errors'
+import { asNotFound, badRequest, forbidden, HttpError, notFound } from '../errors'
 import { APP_VERSION } from '../version'
 import {
   DEFAULT_SIGMA_MM,
@@ -57,8 +57,8 @@ async function loadVisibleReading(
   if (!reading) throw notFound('reading')
   try {
     return { reading, image: await loadVisibleImage(db, actor, reading.imageId) }
-  } catch {
-    throw notFound('reading')
+  } catch (error) {
+    return asNotFound(error, 'reading')
   }
 }
 

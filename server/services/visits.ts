@@ -2,10 +2,9 @@ import type { Db } from '../db/knex'
 import { findVisit, insertVisit, listVisitsOfPatient, updateVisit, type VisitRecord } from '../db/visits'
 import type { PatientRecord } from '../db/patients'
 import { ageInYears, deidentifiedAgeInYears } from '../db/rows'
-import { badRequest, conflict, notFound } from '../errors'
-import { roleCan } from '../../shared/types/permissions'
+import { asNotFound, badRequest, conflict, notFound } from '../errors'
 import type { DeidentifiedVisit, IdentifiedVisit, Visit, VisitInput, VisitPatch } from '../../shared/types/api'
-import { audit, type Actor } from './audit'
+import { actorIdentifies, audit, type Actor } from './audit'
 import { loadVisiblePatient } from './patients'
 
 function toIdentifiedVisit(visit: VisitRecord, patient: PatientRecord): IdentifiedVisit {
@@ -36,7 +35,7 @@ function toDeidentifiedVisit(visit: VisitRecord, patient: PatientRecord, sequenc
   }
 }
 
-const identifies = (actor: Actor) => roleCan(actor.user.role, 'patient:identify')
+const identifies = actorIdentifies
 
 export async function listVisits(db: Db, actor: Actor, patientId: number): Promise<Visit[]> {
   const patient = await loadVisiblePatient(db, actor, patientId)
@@ -52,8 +51,8 @@ export async function loadVisibleVisit(db: Db, actor: Actor, visitId: number): P
   if (!visit) throw notFound('visit')
   try {
     return { visit, patient: await loadVisiblePatient(db, actor, visit.patientId) }
-  } catch {
-    throw notFound('visit')
+  } catch (error) {
+    return asNotFound(error, 'visit')
   }
 }
 
