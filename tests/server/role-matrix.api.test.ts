@@ -12,7 +12,7 @@ import { insertImage } from '../../server/db/images'
 type Who = Role | 'anonymous'
 
 interface RouteCase {
-  method: 'get' | 'post' | 'patch' | 'put'
+  method: 'get' | 'post' | 'patch' | 'put' | 'delete'
   path: (ids: Ids) => string
   body?: (ids: Ids, n: number) => object
   /** The version a versioned write sends; patches default to the patient's or visit's. */
@@ -28,6 +28,7 @@ interface Ids {
   patientVersion: () => Promise<number>
   visitVersion: () => Promise<number>
   readingVersion: () => Promise<number>
+  imageVersion: () => Promise<number>
 }
 
 let n = 0
@@ -60,6 +61,13 @@ const ROUTES: RouteCase[] = [
   { method: 'get', path: (ids) => `/api/patients/${ids.patientId}/plan`, expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 } },
   { method: 'put', path: (ids) => `/api/patients/${ids.patientId}/plan/L4-L5`, body: () => ({ parsDefectLeft: false, parsDefectRight: false, facetDegeneration: false, dynamicInstability: false, treatment: 'disc-replacement', implantLordosisDeg: 6, implantHeightMm: 10, notes: null, version: null }), expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 403, researcher: 403 } },
   { method: 'get', path: (ids) => `/api/patients/${ids.patientId}/trends`, expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 } },
+  // Films: the fixture film has a reading, so deleting it is refused (409) even where allowed.
+  { method: 'get', path: (ids) => `/api/visits/${ids.visitId}/images`, expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 } },
+  { method: 'post', path: (ids) => `/api/visits/${ids.visitId}/images`, body: () => ({}), expect: { anonymous: 401, admin: 403, surgeon: 400, fellow: 400, researcher: 403 } },
+  { method: 'get', path: (ids) => `/api/images/${ids.imageId}`, expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 } },
+  { method: 'patch', path: (ids) => `/api/images/${ids.imageId}/calibration`, body: () => ({ line: [[0, 0], [100, 0]] }), version: (ids) => ids.imageVersion(), expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 403 } },
+  { method: 'delete', path: (ids) => `/api/images/${ids.imageId}`, expect: { anonymous: 401, admin: 403, surgeon: 409, fellow: 409, researcher: 403 } },
+  { method: 'post', path: () => '/api/measurements/compute', body: () => ({ points: {} }), expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 200, researcher: 200 } },
   { method: 'get', path: () => '/api/users', expect: { anonymous: 401, admin: 200, surgeon: 403, fellow: 403, researcher: 403 } },
   { method: 'get', path: () => '/api/audit-events', expect: { anonymous: 401, admin: 200, surgeon: 403, fellow: 403, researcher: 403 } },
   { method: 'get', path: () => '/api/no-such-route', expect: { anonymous: 401, admin: 404, surgeon: 404, fellow: 404, researcher: 404 } },
@@ -104,6 +112,7 @@ beforeEach(async () => {
     patientVersion: async () => (await db('patients').where({ id: patientId }).first()).version,
     visitVersion: async () => (await db('visits').where({ id: visitId }).first()).version,
     readingVersion: async () => (await db('readings').where({ id: readingId }).first()).version,
+    imageVersion: async () => (await db('images').where({ id: imageId }).first()).version,
   }
 })
 
