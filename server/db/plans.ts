@@ -1,6 +1,6 @@
 import type { Db } from './knex'
 import { TABLES } from './tables'
-import { toBoolean, toIsoDate, toIsoDateTime, toNumberOrNull } from './rows'
+import { parseJson, toBoolean, toIsoDate, toIsoDateTime, toNumberOrNull } from './rows'
 import type {
   MotionSegment,
   PlannedTreatment,
@@ -157,10 +157,6 @@ export interface PatientReadingSummary {
   monthsSinceSurgery: number | null
 }
 
-function parseJson<T>(value: unknown): T | null {
-  if (value === null || value === undefined) return null
-  return (typeof value === 'string' ? JSON.parse(value) : value) as T
-}
 
 /**
  * Every reading of a patient (drafts included: callers choose), superseded readings excluded,
