@@ -1,3 +1,11 @@
+/** One landmark drag step: the engine call, Konva's draw of the changing layers, and the whole
+ * step (Vue's update of every panel included, the engine counted once). */
+export interface FrameTiming {
+  engineMs: number
+  drawMs: number
+  stepMs: number
+}
+
 /**
  * Frame timings for `npm run bench`: when the page defines `window.__endplateFrameTimes` (the
  * benchmark does, before the app loads), each landmark drag step records how long the engine
@@ -5,7 +13,7 @@
  */
 declare global {
   interface Window {
-    __endplateFrameTimes?: number[]
+    __endplateFrameTimes?: FrameTiming[]
     __endplateFirstPaintMs?: number
   }
 }
@@ -14,8 +22,8 @@ export function frameProbeEnabled(): boolean {
   return Array.isArray(window.__endplateFrameTimes)
 }
 
-export function recordFrameTime(milliseconds: number): void {
-  window.__endplateFrameTimes?.push(milliseconds)
+export function recordFrameTime(timing: FrameTiming): void {
+  window.__endplateFrameTimes?.push(timing)
 }
 
 export function recordFirstPaint(milliseconds: number): void {

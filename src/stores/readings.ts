@@ -143,8 +143,12 @@ export const useReadingsStore = defineStore('readings', () => {
       adopt(loaded)
       film.value = image
       pairedFilm.value = paired
-      // The patient context is a courtesy; the workspace still works without it.
-      visit.value = await getReadingVisit(image.visitId).catch(() => null)
+      // The patient context is a courtesy: it arrives when it arrives, and the film does not wait.
+      void getReadingVisit(image.visitId)
+        .then((found) => {
+          if (reading.value?.id === loaded.id) visit.value = found
+        })
+        .catch(() => undefined)
     } catch (caught) {
       loadError.value =
         caught instanceof ApiError && caught.status === 404

@@ -18,8 +18,12 @@ let browser: BrowserContext
 let server: { url: string; close(): Promise<void> }
 let fellow: TestUser
 let visitId: number
+let postOpVisitId: number
 
 beforeAll(async () => {
+  // A database of this file's own: API and browser runs started in parallel from other
+  // checkouts of the tree use the numbered worker databases and truncate them mid-test.
+  process.env.VITEST_POOL_ID = 'workspace'
   db = await openTestDb()
   await truncateAll(db)
   const config = testConfig()
@@ -29,6 +33,7 @@ beforeAll(async () => {
     givenName: 'Ilse',
   })
   visitId = await insertTestVisit(db, patientId, fellow.id, '2026-03-02')
+  postOpVisitId = await insertTestVisit(db, patientId, fellow.id, '2026-05-11', 'post-op')
   server = await startAppServer(db)
   browser = await launchBrowser()
   const [name, value] = fellow.cookie.split('=') as [string, string]
@@ -55,9 +60,10 @@ async function statusWithBody(response: {
 async function uploadPhantom(
   preset: string,
   view = 'lateral-neutral',
+  toVisit = visitId,
 ): Promise<{ image: ImageRecord; truth: LandmarkDocument }> {
   const files = await smallPhantomFiles(phantomPreset(preset))
-  const response = await browser.request.post(`${server.url}/api/visits/${visitId}/images`, {
+  const response = await browser.request.post(`${server.url}/api/visits/${toVisit}/images`, {
     multipart: {
       view,
       confirmPatientMismatch: 'true',
@@ -107,11 +113,18 @@ function toScreen(view: ViewState, [x, y]: readonly [number, number]): [number, 
 
 async function openWorkspace(page: Page, readingId: number): Promise<void> {
   await page.goto(`${server.url}/readings/${readingId}`)
-  await page.locator('[data-testid="film-canvas"] canvas').first().waitFor()
+  const canvas = page.locator('[data-testid="film-canvas"] canvas').first()
+  const refused = page.locator('.workspace-message [role="alert"], .workspace-message .p-message')
+  await canvas.or(refused).first().waitFor()
+  // A refused reading shows its message; say it rather than time out.
+  if (await refused.count())
+    throw new Error(`The workspace did not open: ${await refused.first().innerText()}`)
   await expect
     .poll(
       () => page.locator('[data-testid="film-canvas"]').first().getAttribute('data-full-depth'),
-      { timeout: 15_000 },
+      {
+        timeout: 15_000,
+      },
     )
     .toBe('yes')
 }
@@ -258,7 +271,7 @@ describe('Reading workspace in Chromium', () => {
   })
 
   it('shows Construct check on a post-op film with a cage and disc replacements', async () => {
-    const { image, truth } = await uploadPhantom('hybrid-post-op', 'lateral-neutral')
+    const { image, truth } = await uploadPhantom('hybrid-post-op', 'lateral-neutral', postOpVisitId)
     const construct = [
       { segment: 'L5-S1', implant: 'cage' },
       { segment: 'L4-L5', implant: 'disc-replacement' },

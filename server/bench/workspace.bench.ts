@@ -1,0 +1,244 @@
+// Reading workspace in headless Chromium, against a bench database of its own: a 3000 × 2500
+// phantom with every Lumbar alignment landmark and overlay. Figures: the frame time of one
+// landmark drag step (the engine plus Konva's draw, timed in the page; target median < 8 ms)
+// and the time from opening the reading to its first painted film (target < 1 s).
+// Prints figures only; no assertions.
+import { existsSync, mkdtempSync, rmSync } from 'node:fs'
+import { createServer, type Server } from 'node:http'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import knexFactory from 'knex'
+import { chromium } from 'playwright-core'
+import { pino } from 'pino'
+import { createApp } from '../app'
+import { config, parseConfig } from '../config'
+import { createDb } from '../db/knex'
+import { TABLES_CHILDREN_FIRST } from '../db/tables'
+import { insertUser } from '../db/users'
+import { insertPatient } from '../db/patients'
+import { insertVisit } from '../db/visits'
+import { SESSION_COOKIE, signSessionToken } from '../auth/session-token'
+import { generatePhantom, phantomDicom } from '../phantom/generate-phantom'
+import { projectRoot } from '../project-root'
+
+/** The page's globals these callbacks touch; the server's tsconfig has no DOM types. */
+interface BrowserGlobals {
+  document: {
+    querySelector(selector: string): { getAttribute(name: string): string | null } | null
+  }
+}
+
+const BENCH_DATABASE = `${config.DB_NAME}_bench`
+const DRAG_STEPS = 240
+const OPEN_RUNS = 5
+
+function percentile(values: number[], fraction: number): number {
+  const sorted = [...values].sort((a, b) => a - b)
+  const index = Math.min(sorted.length - 1, Math.max(0, Math.ceil(fraction * sorted.length) - 1))
+  return sorted[index] as number
+}
+
+async function benchDatabase() {
+  const admin = knexFactory({
+    client: 'mysql2',
+    connection: {
+      host: config.DB_HOST,
+      port: config.DB_PORT,
+      user: config.DB_USER,
+      password: config.DB_PASSWORD,
+    },
+  })
+  try {
+    await admin.raw(
+      `CREATE DATABASE IF NOT EXISTS \`${BENCH_DATABASE}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`,
+    )
+  } finally {
+    await admin.destroy()
+  }
+  const db = createDb(BENCH_DATABASE)
+  await db.migrate.latest()
+  await db.raw('SET FOREIGN_KEY_CHECKS = 0')
+  for (const table of TABLES_CHILDREN_FIRST) await db.raw(`TRUNCATE TABLE \`${table}\``)
+  await db.raw('SET FOREIGN_KEY_CHECKS = 1')
+  return db
+}
+
+export async function run(): Promise<void> {
+  const clientDir = join(projectRoot, 'dist')
+  if (!existsSync(join(clientDir, 'index.html'))) {
+    console.log('skipped: the client is not built (run `npx vite build` first)')
+    return
+  }
+  const db = await benchDatabase()
+  const uploadDir = mkdtempSync(join(tmpdir(), 'endplate-bench-uploads-'))
+  const appConfig = parseConfig({
+    ...process.env,
+    NODE_ENV: 'test',
+    LOG_LEVEL: 'silent',
+    UPLOAD_DIR: uploadDir,
+    UPLOAD_MAX_MB: '200',
+  })
+  const app = createApp({ db, config: appConfig, logger: pino({ level: 'silent' }), clientDir })
+  const server: Server = createServer(app)
+  await new Promise<void>((resolveListen) => server.listen(0, '127.0.0.1', () => resolveListen()))
+  const address = server.address()
+  if (!address || typeof address === 'string') throw new Error('No port')
+  const url = `http://127.0.0.1:${address.port}`
+  const browser = await chromium.launchPersistentContext(
+    mkdtempSync(join(tmpdir(), 'endplate-bench-profile-')),
+    {
+      executablePath: '/usr/bin/chromium',
+      headless: true,
+      viewport: { width: 1440, height: 900 },
+      args: [
+        '--headless',
+        '--no-sandbox',
+        '--disable-gpu',
+        '--disable-quic',
+        '--no-first-run',
+        '--disable-background-networking',
+        '--disable-component-update',
+        '--disable-sync',
+      ],
+    },
+  )
+  try {
+    const userId = await insertUser(db, {
+      email: 'bench.fellow@bench.example',
+      displayName: 'Bench fellow',
+      role: 'fellow',
+      passwordHash: 'x',
+    })
+    const patientId = await insertPatient(db, {
+      recordNumber: 'BENCH-0001',
+      familyName: 'Benchmark',
+      givenName: 'Phantom',
+      birthDate: '1970-01-01',
+      sex: 'female',
+      osteoporosis: false,
+      notes: null,
+      studyCode: 'EP-BENCH1',
+      createdBy: userId,
+    })
+    const visitId = await insertVisit(db, {
+      patientId,
+      visitDate: '2026-01-05',
+      kind: 'pre-op',
+      monthsSinceSurgery: null,
+      indication: null,
+      createdBy: userId,
+    })
+    const token = signSessionToken(userId, 'fellow', {
+      secret: appConfig.JWT_SECRET,
+      lifetimeMinutes: appConfig.SESSION_MINUTES,
+    })
+    await browser.addCookies([{ name: SESSION_COOKIE, value: token, url }])
+
+    const film = await generatePhantom({ widthPx: 3000, heightPx: 2500 })
+    const upload = await browser.request.post(`${url}/api/visits/${visitId}/images`, {
+      multipart: {
+        view: 'lateral-neutral',
+        confirmPatientMismatch: 'true',
+        file: { name: 'bench.dcm', mimeType: 'application/dicom', buffer: phantomDicom(film) },
+      },
+    })
+    if (upload.status() !== 201)
+      throw new Error(`upload answered ${upload.status()}: ${await upload.text()}`)
+    const [image] = (await upload.json()) as Array<{ id: number }>
+    const created = await browser.request.post(`${url}/api/images/${image!.id}/readings`, {
+      data: { template: 'lumbar-alignment', points: film.landmarks.points },
+    })
+    if (created.status() !== 201)
+      throw new Error(`create reading answered ${created.status()}: ${await created.text()}`)
+    const reading = (await created.json()) as { id: number }
+
+    // The page keeps its own timings once this array exists (src/composables/use-frame-probe.ts).
+    await browser.addInitScript(() => {
+      ;(globalThis as unknown as { __endplateFrameTimes: unknown[] }).__endplateFrameTimes = []
+    })
+
+    const openTimes: number[] = []
+    for (let runIndex = 0; runIndex < OPEN_RUNS; runIndex++) {
+      const page = await browser.newPage()
+      await page.goto(`${url}/readings/${reading.id}`)
+      await page.waitForFunction(
+        () =>
+          (globalThis as unknown as { __endplateFirstPaintMs?: number }).__endplateFirstPaintMs !==
+          undefined,
+        null,
+        { timeout: 20_000 },
+      )
+      openTimes.push(
+        await page.evaluate(
+          () =>
+            (globalThis as unknown as { __endplateFirstPaintMs: number }).__endplateFirstPaintMs,
+        ),
+      )
+      if (runIndex < OPEN_RUNS - 1) await page.close()
+    }
+    // The first open warms the server's and browser's caches; report the warm ones and the cold.
+    const page = browser.pages().at(-1)!
+    await page.waitForFunction(
+      () =>
+        (globalThis as unknown as BrowserGlobals).document
+          .querySelector('[data-testid="film-canvas"]')
+          ?.getAttribute('data-full-depth') === 'yes',
+      null,
+      { timeout: 30_000 },
+    )
+
+    const surface = page.locator('[data-testid="film-canvas"]')
+    const box = (await surface.boundingBox())!
+    const attr = async (name: string) => Number(await surface.getAttribute(name))
+    const scale = await attr('data-view-scale')
+    const [px, py] = film.landmarks.points['L4.pi']!
+    const x = box.x + (await attr('data-view-offset-x')) + px * scale
+    const y = box.y + (await attr('data-view-offset-y')) + py * scale
+    await page.evaluate(
+      () =>
+        ((
+          globalThis as unknown as { __endplateFrameTimes: unknown[] }
+        ).__endplateFrameTimes.length = 0),
+    )
+    await page.mouse.move(x, y)
+    await page.mouse.down()
+    for (let step = 1; step <= DRAG_STEPS; step++) {
+      const angle = (step / DRAG_STEPS) * Math.PI * 4
+      await page.mouse.move(x + Math.cos(angle) * 25, y + Math.sin(angle) * 25)
+    }
+    await page.mouse.up()
+    type Timing = { engineMs: number; drawMs: number; stepMs: number }
+    const frames = await page.evaluate(() => [
+      ...(globalThis as unknown as { __endplateFrameTimes: Timing[] }).__endplateFrameTimes,
+    ])
+    const engineAndDraw = frames.map((frame) => frame.engineMs + frame.drawMs)
+    const engine = frames.map((frame) => frame.engineMs)
+    const draw = frames.map((frame) => frame.drawMs)
+    const step = frames.map((frame) => frame.stepMs)
+    const figures = (values: number[]) =>
+      `median ${percentile(values, 0.5).toFixed(2)} ms, p95 ${percentile(values, 0.95).toFixed(2)} ms`
+
+    const [cold, ...warm] = openTimes
+    console.log(
+      `film ${film.width} × ${film.height} px, ${Object.keys(film.landmarks.points).length} landmarks (Lumbar alignment), Chromium headless, software rendering`,
+    )
+    console.log(
+      `drag frame, engine + Konva draw: ${figures(engineAndDraw)} over ${frames.length} steps (target median < 8 ms)`,
+    )
+    console.log(
+      `  engine (computeMeasurements): ${figures(engine)}; draw (overlay + landmark layers): ${figures(draw)}`,
+    )
+    console.log(
+      `  whole step incl. Vue updating checklist, results panel and loupe: ${figures(step)}`,
+    )
+    console.log(
+      `open reading → first painted film: cold ${cold!.toFixed(0)} ms, warm median ${percentile(warm, 0.5).toFixed(0)} ms over ${warm.length} opens (target < 1000 ms)`,
+    )
+  } finally {
+    await browser.close()
+    server.closeAllConnections()
+    await new Promise<void>((resolveClose) => server.close(() => resolveClose()))
+    await db.destroy()
+    rmSync(uploadDir, { recursive: true, force: true })
+  }
+}
