@@ -164,8 +164,15 @@ describe('Reading workspace in Chromium', () => {
     await expect.poll(async () => (await viewState(page)).scale).toBeGreaterThan(fitted.scale * 1.5)
     const view = await viewState(page)
 
-    for (const spec of specs) {
-      await page.mouse.click(...toScreen(view, truth.points[spec.name]!))
+    for (const [index, spec] of specs.entries()) {
+      const at = toScreen(view, truth.points[spec.name]!)
+      if (index === specs.length - 1) {
+        // The loupe follows the cursor while placing.
+        await page.mouse.move(...at)
+        await page.locator('.loupe').waitFor()
+        await page.screenshot({ path: screenshotPath('workspace-loupe') })
+      }
+      await page.mouse.click(...at)
     }
     await expect
       .poll(() => page.getByText(`${specs.length} / ${specs.length} placed`).count())
@@ -253,6 +260,73 @@ describe('Reading workspace in Chromium', () => {
     await second.close()
   })
 
+  it('submits the reading for sign-off and then shows it read-only', async () => {
+    const page = await browser.newPage()
+    await openWorkspace(page, slipReading.id)
+    await page.getByRole('button', { name: 'Submit for sign-off' }).click()
+    await page.getByText('Read only').waitFor()
+    expect((await storedReading(slipReading.id)).status).toBe('submitted')
+    // Clicking on the film places nothing now.
+    const before = (await storedReading(slipReading.id)).landmarks.points
+    const box = (await page.locator('[data-testid="film-canvas"]').boundingBox())!
+    await page.mouse.click(box.x + 40, box.y + 40)
+    await page.keyboard.press('Delete')
+    expect((await storedReading(slipReading.id)).landmarks.points).toEqual(before)
+    expect(await page.getByRole('button', { name: 'Undo' }).count()).toBe(0)
+    await page.close()
+  })
+
+  it('calibrates an uncalibrated film on a line of known length', async () => {
+    const files = await smallPhantomFiles(phantomPreset('meyerding-1'))
+    const upload = await browser.request.post(`${server.url}/api/visits/${visitId}/images`, {
+      multipart: {
+        view: 'lateral-neutral',
+        file: { name: 'plain.png', mimeType: 'image/png', buffer: files.png },
+      },
+    })
+    expect(await statusWithBody(upload)).toBe(201)
+    const [image] = (await upload.json()) as ImageRecord[]
+    expect(image!.spacingSource).toBe('none')
+    const reading = await createReading(image!.id, {
+      template: 'slip-grade',
+      options: { segment: 'L5-S1' },
+      points: Object.fromEntries(
+        templateLandmarks('slip-grade', { segment: 'L5-S1' }).map((spec) => [
+          spec.name,
+          files.film.landmarks.points[spec.name]!,
+        ]),
+      ),
+    })
+    const page = await browser.newPage()
+    await openWorkspace(page, reading.id)
+    expect(await page.locator('[data-result="L5-S1-slip-mm"] .value').innerText()).toBe('—')
+    await page.getByRole('button', { name: 'Calibrate' }).click()
+    const view = await viewState(page)
+    const from = toScreen(view, [200, 300])
+    const to = toScreen(view, [300, 300])
+    await page.mouse.move(...from)
+    await page.mouse.down()
+    await page.mouse.move((from[0] + to[0]) / 2, from[1])
+    await page.mouse.move(...to)
+    await page.mouse.up()
+    const dialog = page.getByRole('dialog', { name: 'Calibrate the film' })
+    await dialog.waitFor()
+    await dialog.getByLabel('True length (mm)').fill('40')
+    await dialog.getByRole('button', { name: 'Save calibration' }).click()
+    await dialog.waitFor({ state: 'hidden' })
+    // 40 mm over a 100 px line: 0.4 mm per pixel, from a manual calibration (reference §5).
+    await page.getByText('0.4000 mm/px').waitFor()
+    expect(await page.locator('[data-result="L5-S1-slip-mm"] .calibration').innerText()).toBe(
+      'manual calibration',
+    )
+    const stored = (await (
+      await browser.request.get(`${server.url}/api/images/${image!.id}`)
+    ).json()) as ImageRecord
+    expect(stored.spacingSource).toBe('manual')
+    expect(stored.mmPerPixel![1]).toBeCloseTo(0.4, 2)
+    await page.close()
+  })
+
   it('shows Lumbar alignment with every landmark and its overlays', async () => {
     const { image, truth } = await uploadPhantom('normal')
     const reading = await createReading(image.id, {
@@ -267,6 +341,11 @@ describe('Reading workspace in Chromium', () => {
     const pi = parseNumber(await resultValue(page, 'pi'))
     expect(Math.abs(pi - expected.pelvis!.incidenceDeg!)).toBeLessThan(0.1)
     await page.screenshot({ path: screenshotPath('workspace-lumbar-alignment') })
+    // Invert goes through the full-depth window in the worker; the film is redrawn.
+    await page.getByRole('button', { name: 'Invert' }).click()
+    await page.getByRole('button', { name: 'Inverted' }).waitFor()
+    await page.waitForTimeout(500)
+    await page.screenshot({ path: screenshotPath('workspace-inverted') })
     await page.close()
   })
 

@@ -7,6 +7,7 @@ import type {
   MotionSegmentResult,
   SegmentMeasurement,
   SegmentName,
+  SubsidenceResult,
   UncertaintyResult,
   ValueInterval,
 } from '@shared/types/measurement'
@@ -487,12 +488,71 @@ function motionSection(
   return { id: 'motion', title: `Motion ${segmentName}, flexion → extension`, rows, flags }
 }
 
+/** Subsidence against the first post-op reading, as the server stored it with the draft. */
+function subsidenceSection(
+  stored: Record<string, SubsidenceResult>,
+  baselineId: number | null,
+): ResultSection {
+  const rows: ResultRow[] = []
+  const flags: ResultFlag[] = []
+  let source: string = SOURCES.subsidence
+  for (const result of Object.values(stored)) {
+    source = result.source
+    for (const [name, segment] of Object.entries(result.segments)) {
+      if (!segment) continue
+      for (const part of ['anterior', 'posterior', 'mean'] as const) {
+        rows.push(
+          row(
+            `${name}-subsidence-${part}`,
+            `${name} height loss, ${part}`,
+            segment.lossMm[part],
+            null,
+            'mm',
+            result.source,
+          ),
+        )
+      }
+      if (segment.subsided) {
+        flags.push({
+          id: `${name}-subsided`,
+          tone: 'warn',
+          text: `${name}: disc height lost by ${result.thresholdMm} mm or more since the baseline.`,
+          source: result.source,
+        })
+      }
+    }
+  }
+  return {
+    id: 'subsidence',
+    title:
+      baselineId === null
+        ? 'Subsidence (saved results)'
+        : `Subsidence against reading ${baselineId} (saved results)`,
+    rows,
+    flags: rows.length
+      ? flags
+      : [
+          {
+            id: 'subsidence-none',
+            tone: 'info',
+            text: 'No earlier post-op reading of these segments to compare with.',
+            source,
+          },
+        ],
+  }
+}
+
 export interface WorkspaceResultsInput {
   template: ReadingTemplate
   options: TemplateOptions
   primary: FilmResults
   paired: FilmResults | null
   motion: Partial<Record<SegmentName, MotionSegmentResult>> | null
+  /** Construct check: the server's subsidence results of the last saved draft. */
+  subsidence?: {
+    results: Record<string, SubsidenceResult> | null
+    baselineReadingId: number | null
+  }
 }
 
 /** The sections the results panel shows for a template, in reading order. */
@@ -504,14 +564,20 @@ export function workspaceResultSections(input: WorkspaceResultsInput): ResultSec
     case 'lumbar-alignment':
       return [alignmentSection(input.primary), segmentsSummary(input.primary)]
     case 'construct-check':
-      return (input.options.construct ?? []).map(({ segment: treated, implant }) =>
-        segmentSection(
-          treated,
-          input.primary,
-          `${treated} · ${implant === 'cage' ? 'interbody cage' : 'disc replacement'}`,
-          { implant },
+      return [
+        ...(input.options.construct ?? []).map(({ segment: treated, implant }) =>
+          segmentSection(
+            treated,
+            input.primary,
+            `${treated} · ${implant === 'cage' ? 'interbody cage' : 'disc replacement'}`,
+            { implant },
+          ),
         ),
-      )
+        subsidenceSection(
+          input.subsidence?.results ?? {},
+          input.subsidence?.baselineReadingId ?? null,
+        ),
+      ]
     case 'motion-pair':
       return [
         motionSection(segment, input.motion?.[segment], input.primary.spacingSource),
