@@ -16,6 +16,10 @@ function isTyping(target: EventTarget | null): boolean {
   )
 }
 
+function inToolbar(target: EventTarget | null): boolean {
+  return Boolean((target as HTMLElement | null)?.closest?.('.top-bar, .film-controls, .app-header'))
+}
+
 /**
  * Workspace shortcuts: Ctrl/⌘-Z undo, Ctrl/⌘-Shift-Z and Ctrl/⌘-Y redo, Delete/Backspace remove
  * the selected landmark, Tab/Shift-Tab step through the checklist, Escape stop placing, Space
@@ -38,7 +42,8 @@ export function useWorkspaceKeyboard(actions: WorkspaceKeyActions, enabled: () =
     } else if (event.key === 'Delete' || event.key === 'Backspace') {
       event.preventDefault()
       actions.remove()
-    } else if (event.key === 'Tab') {
+    } else if (event.key === 'Tab' && !inToolbar(event.target)) {
+      // Tab steps through landmarks; in the bars it still moves focus between controls.
       event.preventDefault()
       actions.step(event.shiftKey ? -1 : 1)
     } else if (event.key === 'Escape') {

@@ -60,6 +60,8 @@ export const useReadingsStore = defineStore('readings', () => {
   const selectedName = ref<string | null>(null)
   /** False after Escape: clicks on the film no longer place the next landmark. */
   const placing = ref(true)
+  /** A row picked in the checklist (or by Tab): the next click on the film re-places it. */
+  const replacing = ref<string | null>(null)
   const undoStack = ref<Snapshot[]>([])
   const redoStack = ref<Snapshot[]>([])
 
@@ -192,6 +194,7 @@ export const useReadingsStore = defineStore('readings', () => {
     const before = snapshot()
     sidePoints(side).value[name] = [pointPx[0], pointPx[1]]
     selectedName.value = name
+    replacing.value = null
     commitFrom(before)
   }
 
@@ -240,10 +243,18 @@ export const useReadingsStore = defineStore('readings', () => {
     markEdited()
   }
 
+  /** Selects a landmark (clicking it on the film): a click elsewhere then places the next one. */
   function select(name: string | null, side: FilmSide = activeSide.value): void {
     selectedName.value = name
     activeSide.value = side
+    replacing.value = null
     if (name !== null) placing.value = true
+  }
+
+  /** Picks a checklist row: the next click on the film puts that landmark there. */
+  function pick(name: string, side: FilmSide = activeSide.value): void {
+    select(name, side)
+    replacing.value = name
   }
 
   /** Tab / Shift-Tab: the next or previous checklist row, wrapping round. */
@@ -257,15 +268,17 @@ export const useReadingsStore = defineStore('readings', () => {
           ? 0
           : names.length - 1
         : (current + step + names.length) % names.length
-    select(names[index] ?? null)
+    const name = names[index]
+    if (name !== undefined) pick(name)
   }
 
   /**
-   * The landmark a click places: the selected one while it is still unplaced or when the user
-   * picked a row to re-place it, else the next unplaced one.
+   * The landmark a click places: the row the user picked (to place or re-place it), the
+   * selected one while it is still unplaced, else the next unplaced one.
    */
   function targetForClick(): string | null {
     if (!placing.value || readOnly.value) return null
+    if (replacing.value !== null) return replacing.value
     if (selectedName.value !== null && !(selectedName.value in activePoints.value))
       return selectedName.value
     return nextName.value
@@ -274,6 +287,7 @@ export const useReadingsStore = defineStore('readings', () => {
   function stopPlacing(): void {
     placing.value = false
     selectedName.value = null
+    replacing.value = null
   }
 
   function backoffDelay(): number {
@@ -437,6 +451,7 @@ export const useReadingsStore = defineStore('readings', () => {
     activeSide.value = 'primary'
     selectedName.value = null
     placing.value = true
+    replacing.value = null
     undoStack.value = []
     redoStack.value = []
     saveState.value = 'saved'
@@ -460,6 +475,7 @@ export const useReadingsStore = defineStore('readings', () => {
     activeSide,
     selectedName,
     placing,
+    replacing,
     undoStack,
     redoStack,
     saveState,
@@ -487,6 +503,7 @@ export const useReadingsStore = defineStore('readings', () => {
     undo,
     redo,
     select,
+    pick,
     selectStep,
     targetForClick,
     stopPlacing,

@@ -260,6 +260,42 @@ describe('Reading workspace in Chromium', () => {
     await second.close()
   })
 
+  it('keeps an edit made offline, warns before leaving, and saves it when the network returns', async () => {
+    const specs = templateLandmarks('slip-grade', { segment: 'L5-S1' })
+    const allButLast = Object.fromEntries(
+      specs.slice(0, -1).map((spec) => [spec.name, slipTruth.points[spec.name]!]),
+    )
+    const reading = await createReading(slipReading.imageId, {
+      template: 'slip-grade',
+      options: { segment: 'L5-S1' },
+      points: allButLast,
+    })
+    const page = await browser.newPage()
+    await openWorkspace(page, reading.id)
+    await browser.setOffline(true)
+    try {
+      const view = await viewState(page)
+      await page.mouse.click(...toScreen(view, slipTruth.points['S1.pw']!))
+      await expect
+        .poll(() => page.getByTestId('save-state').innerText(), { timeout: 10_000 })
+        .toContain('Offline')
+      await page.getByRole('link', { name: 'Back to the patient' }).click()
+      const confirm = page
+        .getByRole('alertdialog', { name: 'Leave with unsaved changes?' })
+        .or(page.getByRole('dialog', { name: 'Leave with unsaved changes?' }))
+      await confirm.waitFor()
+      await confirm.getByRole('button', { name: 'Stay' }).click()
+      expect(page.url()).toContain(`/readings/${reading.id}`)
+    } finally {
+      await browser.setOffline(false)
+    }
+    await expect
+      .poll(() => page.getByTestId('save-state').innerText(), { timeout: 20_000 })
+      .toContain('Saved')
+    expect((await storedReading(reading.id)).landmarks.points['S1.pw']).toBeDefined()
+    await page.close()
+  })
+
   it('submits the reading for sign-off and then shows it read-only', async () => {
     const page = await browser.newPage()
     await openWorkspace(page, slipReading.id)

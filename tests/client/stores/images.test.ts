@@ -44,7 +44,11 @@ describe('images store', () => {
     const images = useImagesStore()
     images.queue(7, [file('other.dcm')])
     vi.mocked(api.uploadFilm).mockImplementation(() => ({
-      done: Promise.reject(new ApiError(409, 'patient_mismatch', 'does not match', { mismatches: ['other.dcm: name is "X" in the file, "Y" on record'] })),
+      done: Promise.reject(
+        new ApiError(409, 'patient_mismatch', 'does not match', {
+          mismatches: ['other.dcm: name is "X" in the file, "Y" on record'],
+        }),
+      ),
       abort: () => undefined,
     }))
     await images.sendAll(7)
@@ -52,9 +56,14 @@ describe('images store', () => {
     expect(upload?.status).toBe('needs-confirmation')
     expect(upload?.mismatches).toEqual(['other.dcm: name is "X" in the file, "Y" on record'])
 
-    vi.mocked(api.uploadFilm).mockImplementation(() => ({ done: Promise.resolve([]), abort: () => undefined }))
+    vi.mocked(api.uploadFilm).mockImplementation(() => ({
+      done: Promise.resolve([]),
+      abort: () => undefined,
+    }))
     await images.send(upload!.key, true)
-    expect(vi.mocked(api.uploadFilm).mock.calls.at(-1)?.[1]).toMatchObject({ confirmPatientMismatch: true })
+    expect(vi.mocked(api.uploadFilm).mock.calls.at(-1)?.[1]).toMatchObject({
+      confirmPatientMismatch: true,
+    })
     expect(images.pendingFor(7)).toEqual([])
   })
 
@@ -62,10 +71,15 @@ describe('images store', () => {
     const images = useImagesStore()
     images.queue(7, [file('bad.png', 'image/png')])
     vi.mocked(api.uploadFilm).mockImplementation(() => ({
-      done: Promise.reject(new ApiError(415, 'unsupported_file_type', 'bad.png: not a film Endplate reads')),
+      done: Promise.reject(
+        new ApiError(415, 'unsupported_file_type', 'bad.png: not a film Endplate reads'),
+      ),
       abort: () => undefined,
     }))
     await images.sendAll(7)
-    expect(images.pendingFor(7)[0]).toMatchObject({ status: 'failed', message: 'bad.png: not a film Endplate reads' })
+    expect(images.pendingFor(7)[0]).toMatchObject({
+      status: 'failed',
+      message: 'bad.png: not a film Endplate reads',
+    })
   })
 })

@@ -277,3 +277,18 @@ describe('readings store: conflicts (409 on a stale version)', () => {
     expect(store.reading?.version).toBe(6)
   })
 })
+
+describe('readings store: re-placing from the checklist', () => {
+  it('a picked row is placed by the next click even when already placed; a selected landmark is not', async () => {
+    const store = await loadedStore(
+      readingFixture({ landmarks: { points: { 'L5.as': [10, 10] } } }),
+    )
+    store.select('L5.as')
+    expect(store.targetForClick()).toBe('L5.ps')
+    store.pick('L5.as')
+    expect(store.targetForClick()).toBe('L5.as')
+    store.placePoint('L5.as', [20, 20])
+    expect(store.points['L5.as']).toEqual([20, 20])
+    expect(store.targetForClick()).toBe('L5.ps')
+  })
+})
