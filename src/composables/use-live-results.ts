@@ -10,8 +10,10 @@ import { computeMeasurements, computeMotionPair, computeUncertainty } from '@sha
 
 export interface LiveFilmResults {
   measurements: MeasurementResult | null
-  /** Null while it is being recomputed (during a drag) or when the landmarks are refused. */
+  /** Null when the landmarks are refused; from before the drag while one is under way. */
   uncertainty: UncertaintyResult | null
+  /** True while the intervals are those from before the current drag. */
+  stale: boolean
   /** The engine's message when it refuses the landmarks (e.g. two corners on one spot). */
   error: string | null
 }
@@ -51,10 +53,13 @@ export function useLiveResults(
   const measured = computed(() => measure(doc.value))
   const uncertainty = shallowRef<UncertaintyResult | null>(null)
 
+  // While a landmark is dragged the last intervals stay on screen, marked stale, so the panel
+  // does not jump; they are recomputed when the drag ends.
   watch(
     [doc, dragging],
     () => {
-      if (dragging.value || measured.value.measurements === null) {
+      if (dragging.value) return
+      if (measured.value.measurements === null) {
         uncertainty.value = null
         return
       }
@@ -70,6 +75,7 @@ export function useLiveResults(
   const results = computed<LiveFilmResults>(() => ({
     measurements: measured.value.measurements,
     uncertainty: uncertainty.value,
+    stale: dragging.value,
     error: measured.value.error,
   }))
   return { doc, results }
