@@ -296,6 +296,35 @@ describe('Reading workspace in Chromium', () => {
     await page.close()
   })
 
+  it('steps with Tab, removes with Delete, undoes with Ctrl+Z, and fits the film again', async () => {
+    const page = await browser.newPage()
+    await openWorkspace(page, slipReading.id)
+    const fitted = await viewState(page)
+    const counter = page.getByText(/\d+ \/ 7 placed/)
+    expect(await counter.innerText()).toBe('7 / 7 placed')
+    await page.locator('[data-testid="film-canvas"]').hover()
+    await page.keyboard.press('Tab')
+    await expect
+      .poll(() => page.locator('[aria-current="step"]').innerText())
+      .toContain('L5 anterior-superior')
+    await page.keyboard.press('Tab')
+    await expect
+      .poll(() => page.locator('[aria-current="step"]').innerText())
+      .toContain('L5 posterior-superior')
+    await page.keyboard.press('Delete')
+    await expect.poll(() => counter.innerText()).toBe('6 / 7 placed')
+    await page.keyboard.press('Control+z')
+    await expect.poll(() => counter.innerText()).toBe('7 / 7 placed')
+    await page.mouse.wheel(0, -400)
+    await expect.poll(async () => (await viewState(page)).scale).toBeGreaterThan(fitted.scale * 1.2)
+    await page.getByRole('button', { name: 'Fit' }).click()
+    await expect.poll(async () => (await viewState(page)).scale).toBeCloseTo(fitted.scale, 6)
+    await expect
+      .poll(() => page.getByTestId('save-state').innerText(), { timeout: 10_000 })
+      .toContain('Saved')
+    await page.close()
+  })
+
   it('submits the reading for sign-off and then shows it read-only', async () => {
     const page = await browser.newPage()
     await openWorkspace(page, slipReading.id)
