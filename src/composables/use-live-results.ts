@@ -1,4 +1,4 @@
-import { computed, shallowRef, watch, type Ref } from 'vue'
+import { computed, onScopeDispose, ref, shallowRef, watch, type Ref } from 'vue'
 import type { ImageRecord } from '@shared/types/api'
 import type { LandmarkDocument, PixelPoint } from '@shared/types/landmarks'
 import type {
@@ -10,9 +10,9 @@ import { computeMeasurements, computeMotionPair, computeUncertainty } from '@sha
 
 export interface LiveFilmResults {
   measurements: MeasurementResult | null
-  /** Null when the landmarks are refused; from before the drag while one is under way. */
+  /** Null when the landmarks are refused; refreshed a few times a second during a drag. */
   uncertainty: UncertaintyResult | null
-  /** True while the intervals are those from before the current drag. */
+  /** True while the intervals lag the landmarks during a drag. */
   stale: boolean
   /** The engine's message when it refuses the landmarks (e.g. two corners on one spot). */
   error: string | null
@@ -38,10 +38,15 @@ function measure(doc: LandmarkDocument): {
   }
 }
 
+/** While dragging, intervals are refreshed at most this often (a few engine runs per frame
+ * otherwise); every measurement itself follows each move. */
+export const DRAG_UNCERTAINTY_INTERVAL_MS = 150
+
 /**
  * Results recomputed in the browser from the landmarks with the shared engine, on every change:
  * the measurements at once (well under a millisecond), the uncertainty (about 2 × the number of
- * coordinates engine runs) once a drag ends, so dragging stays smooth. The server's stored
+ * coordinates engine runs) at once when a landmark is placed or dropped, and every
+ * DRAG_UNCERTAINTY_INTERVAL_MS during a drag, so dragging stays smooth. The server's stored
  * results remain the record.
  */
 export function useLiveResults(
@@ -52,30 +57,45 @@ export function useLiveResults(
   const doc = computed(() => documentOf(points.value, film.value))
   const measured = computed(() => measure(doc.value))
   const uncertainty = shallowRef<UncertaintyResult | null>(null)
+  const stale = ref(false)
+  let timer: ReturnType<typeof setTimeout> | null = null
 
-  // While a landmark is dragged the last intervals stay on screen, marked stale, so the panel
-  // does not jump; they are recomputed when the drag ends.
+  function refresh(): void {
+    timer = null
+    stale.value = false
+    if (measured.value.measurements === null) {
+      uncertainty.value = null
+      return
+    }
+    try {
+      uncertainty.value = computeUncertainty(doc.value)
+    } catch {
+      uncertainty.value = null
+    }
+  }
+
+  // During a drag the last intervals stay on screen, marked stale, until the next refresh.
   watch(
     [doc, dragging],
     () => {
-      if (dragging.value) return
-      if (measured.value.measurements === null) {
-        uncertainty.value = null
+      if (!dragging.value) {
+        if (timer !== null) clearTimeout(timer)
+        refresh()
         return
       }
-      try {
-        uncertainty.value = computeUncertainty(doc.value)
-      } catch {
-        uncertainty.value = null
-      }
+      stale.value = true
+      timer ??= setTimeout(refresh, DRAG_UNCERTAINTY_INTERVAL_MS)
     },
     { immediate: true },
   )
+  onScopeDispose(() => {
+    if (timer !== null) clearTimeout(timer)
+  })
 
   const results = computed<LiveFilmResults>(() => ({
     measurements: measured.value.measurements,
     uncertainty: uncertainty.value,
-    stale: dragging.value,
+    stale: stale.value,
     error: measured.value.error,
   }))
   return { doc, results }
