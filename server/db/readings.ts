@@ -3,31 +3,11 @@ import { TABLES } from './tables'
 import { parseJson, toBoolean, toIsoDateTime, toIsoDateTimeOrNull } from './rows'
 import type { ReadingStatus, ReadingTemplate } from '../../shared/types/domain'
 import type { LandmarkDocument } from '../../shared/types/landmarks'
-import type { ReadingCalibration, ReadingResults } from '../../shared/types/readings'
+import type { Reading, ReadingCalibration, ReadingResults } from '../../shared/types/readings'
 import type { TemplateOptions } from '../../shared/readings/templates'
 
-export interface ReadingRecord {
-  id: number
-  imageId: number
-  pairedImageId: number | null
-  raterId: number
-  raterName: string
-  template: ReadingTemplate
-  options: TemplateOptions
-  landmarks: LandmarkDocument
-  pairedLandmarks: LandmarkDocument | null
-  calibration: ReadingCalibration
-  pairedCalibration: ReadingCalibration | null
-  results: ReadingResults
-  engineVersion: string
-  status: ReadingStatus
-  version: number
-  blinded: boolean
-  supersedesId: number | null
-  supersedeReason: string | null
-  submittedAt: string | null
-  signedAt: string | null
-  signedBy: number | null
+/** A stored reading: the API's Reading with its timestamps always present. */
+export interface ReadingRecord extends Omit<Reading, 'createdAt' | 'updatedAt'> {
   createdAt: string
   updatedAt: string
 }

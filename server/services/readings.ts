@@ -27,7 +27,7 @@ import {
 import type { ReadingTemplate } from '../../shared/types/domain'
 import type { PixelPoint } from '../../shared/types/landmarks'
 import type { CreateReadingInput, PatchReadingInput, Reading } from '../../shared/types/readings'
-import { audit, type Actor } from './audit'
+import { actorIdentifies, audit, type Actor } from './audit'
 import { loadVisibleImage } from './images'
 import { calibrationOf, computeReadingResults, landmarkDocument } from './readings-results'
 
@@ -43,8 +43,13 @@ export class ReadingConflictError extends HttpError {
   }
 }
 
-function toReadingDto(record: ReadingRecord): Reading {
-  return { ...record }
+/**
+ * Researchers get no timestamps: readings are usually made on the visit day, so they would
+ * date the visit. Everyone else gets the record as it is.
+ */
+function toReadingDto(record: ReadingRecord, identified = true): Reading {
+  if (identified) return { ...record }
+  return { ...record, createdAt: null, updatedAt: null, submittedAt: null, signedAt: null }
 }
 
 /** Loads a reading whose film the actor may see, with that film; anything else is a 404. */
@@ -235,12 +240,12 @@ export async function createReading(
 }
 
 export async function getReading(db: Db, actor: Actor, id: number): Promise<Reading> {
-  return toReadingDto((await loadVisibleReading(db, actor, id)).reading)
+  return toReadingDto((await loadVisibleReading(db, actor, id)).reading, actorIdentifies(actor))
 }
 
 export async function listImageReadings(db: Db, actor: Actor, imageId: number): Promise<Reading[]> {
   await loadVisibleImage(db, actor, imageId)
-  return (await listReadingsOfImage(db, imageId)).map(toReadingDto)
+  return (await listReadingsOfImage(db, imageId)).map((reading) => toReadingDto(reading, actorIdentifies(actor)))
 }
 
 /** Rater only, drafts only, and only from the version the rater last saw. */

@@ -48,8 +48,9 @@ export interface Reading {
   submittedAt: string | null
   signedAt: string | null
   signedBy: number | null
-  createdAt: string
-  updatedAt: string
+  /** Timestamps are null for researchers: they would date the visit. */
+  createdAt: string | null
+  updatedAt: string | null
 }
 
 export interface CreateReadingInput {

@@ -1,4 +1,3 @@
-import type { Visit } from '@shared/types/api'
 import type { CreateReadingInput, PatchReadingInput, Reading } from '@shared/types/readings'
 import { http } from './http'
 
@@ -13,8 +12,3 @@ export const patchReading = (id: number, input: PatchReadingInput) =>
 export const submitReading = (id: number, version: number) =>
   http.post<Reading>(`/readings/${id}/submit`, { version })
 
-/**
- * The visit a reading's film belongs to, for the workspace's patient context. It lives here
- * until src/api/visits.ts offers a single-visit call.
- */
-export const getReadingVisit = (visitId: number) => http.get<Visit>(`/visits/${visitId}`)

@@ -5,3 +5,4 @@ export const listVisits = (patientId: number) => http.get<Visit[]>(`/patients/${
 export const createVisit = (patientId: number, input: VisitInput) =>
   http.post<IdentifiedVisit>(`/patients/${patientId}/visits`, input)
 export const updateVisit = (id: number, patch: VisitPatch) => http.patch<IdentifiedVisit>(`/visits/${id}`, patch)
+export const getVisit = (id: number) => http.get<Visit>(`/visits/${id}`)

@@ -4,7 +4,8 @@ import type { ImageRecord, Visit } from '@shared/types/api'
 import type { PixelPoint } from '@shared/types/landmarks'
 import type { Reading } from '@shared/types/readings'
 import { templateLandmarks, templateNeedsPairedImage } from '@shared/readings/templates'
-import { getReading, getReadingVisit, patchReading, submitReading } from '@/api/readings'
+import { getReading, patchReading, submitReading } from '@/api/readings'
+import { getVisit } from '@/api/visits'
 import { calibrateImage, getImage } from '@/api/images'
 import { ApiError } from '@/api/http'
 
@@ -146,7 +147,7 @@ export const useReadingsStore = defineStore('readings', () => {
       film.value = image
       pairedFilm.value = paired
       // The patient context is a courtesy: it arrives when it arrives, and the film does not wait.
-      void getReadingVisit(image.visitId)
+      void getVisit(image.visitId)
         .then((found) => {
           if (reading.value?.id === loaded.id) visit.value = found
         })

@@ -21,9 +21,6 @@ let visitId: number
 let postOpVisitId: number
 
 beforeAll(async () => {
-  // A database of this file's own: API and browser runs started in parallel from other
-  // checkouts of the tree use the numbered worker databases and truncate them mid-test.
-  process.env.VITEST_POOL_ID = 'workspace'
   db = await openTestDb()
   await truncateAll(db)
   const config = testConfig()

@@ -259,6 +259,11 @@ describe('GET /api/readings/:id and /api/images/:id/readings', () => {
       .set('Cookie', users.researcher.cookie)
     expect(one.status).toBe(200)
     expect(one.body.id).toBe(first.id)
+    // No timestamps for researchers: a reading made on the visit day would date the visit.
+    for (const reading of [one.body, ...list.body]) {
+      expect(reading).toMatchObject({ createdAt: null, updatedAt: null, submittedAt: null, signedAt: null })
+    }
+    expect(JSON.stringify([one.body, list.body])).not.toMatch(/\d{4}-\d{2}-\d{2}T/)
 
     const outsider = await createTestUser(db, config, 'researcher', 'outsider@test.example')
     expect(

@@ -6,9 +6,11 @@ import { TABLES_CHILDREN_FIRST } from '../../server/db/tables'
 /**
  * Each vitest worker gets a database of its own (endplate_test_w1, _w2, ...) so files running in
  * parallel never truncate each other's rows. Within a worker, files run one after another.
+ * ENDPLATE_TEST_DB_TAG keeps two vitest runs on one machine (two checkouts, say) apart.
  */
 export function workerDatabaseName(): string {
-  return `${config.DB_TEST_NAME}_w${process.env.VITEST_POOL_ID ?? '0'}`
+  const tag = process.env.ENDPLATE_TEST_DB_TAG?.replace(/[^a-z0-9]/gi, '').toLowerCase()
+  return `${config.DB_TEST_NAME}_w${process.env.VITEST_POOL_ID ?? '0'}${tag ? `_${tag}` : ''}`
 }
 
 /** Creates (when missing) and migrates the worker's database, and opens a pool on it. */

@@ -6,13 +6,16 @@ import { templateLandmarks } from '../../../shared/readings/templates'
 import { ApiError } from '../../../src/api/http'
 import * as readingsApi from '../../../src/api/readings'
 import * as imagesApi from '../../../src/api/images'
+import * as visitsApi from '../../../src/api/visits'
 import { AUTOSAVE_DELAY_MS, RETRY_DELAYS_MS, useReadingsStore } from '../../../src/stores/readings'
 
 vi.mock('@/api/readings')
 vi.mock('@/api/images')
+vi.mock('@/api/visits')
 
 const api = vi.mocked(readingsApi)
 const images = vi.mocked(imagesApi)
+const visits = vi.mocked(visitsApi)
 
 function readingFixture(overrides: Partial<Reading> = {}): Reading {
   return {
@@ -71,7 +74,7 @@ function acceptPatches() {
 
 async function loadedStore(reading = readingFixture()) {
   api.getReading.mockResolvedValue(reading)
-  api.getReadingVisit.mockRejectedValue(new Error('not needed'))
+  visits.getVisit.mockRejectedValue(new Error('not needed'))
   images.getImage.mockResolvedValue(film)
   const store = useReadingsStore()
   await store.load(reading.id)
