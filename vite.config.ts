@@ -30,7 +30,11 @@ export default defineConfig({
         extends: true,
         test: {
           name: 'unit',
-          include: ['tests/shared/**/*.test.ts', 'tests/client/**/*.test.ts', 'tests/server/unit/**/*.test.ts'],
+          include: [
+            'tests/shared/**/*.test.ts',
+            'tests/client/**/*.test.ts',
+            'tests/server/unit/**/*.test.ts',
+          ],
           environment: 'node',
         },
       },

@@ -5,7 +5,16 @@ import vitest from '@vitest/eslint-plugin'
 import globals from 'globals'
 
 export default defineConfigWithVueTs(
-  { ignores: ['dist/**', 'node_modules/**', 'uploads/**', '.data/**', 'coverage/**', 'tests/output/**'] },
+  {
+    ignores: [
+      'dist/**',
+      'node_modules/**',
+      'uploads/**',
+      '.data/**',
+      'coverage/**',
+      'tests/output/**',
+    ],
+  },
   pluginVue.configs['flat/recommended'],
   vueTsConfigs.recommended,
   {
@@ -20,7 +29,10 @@ export default defineConfigWithVueTs(
       'vue/multiline-html-element-content-newline': 'off',
       'vue/html-closing-bracket-newline': 'off',
       'vue/attributes-order': 'off',
-      '@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_', varsIgnorePattern: '^_' }],
+      '@typescript-eslint/no-unused-vars': [
+        'error',
+        { argsIgnorePattern: '^_', varsIgnorePattern: '^_' },
+      ],
     },
   },
   {
@@ -41,9 +53,18 @@ export default defineConfigWithVueTs(
         'error',
         {
           patterns: [
-            { group: ['node:*', 'fs', 'path', 'os', 'crypto'], message: 'shared/ must not use Node APIs.' },
-            { group: ['vue', 'vue-*', 'konva', 'pinia', 'primevue', 'primevue/*', '@/*'], message: 'shared/ must not depend on the client.' },
-            { group: ['express', 'knex', 'mysql2', 'sharp'], message: 'shared/ must not depend on the server.' },
+            {
+              group: ['node:*', 'fs', 'path', 'os', 'crypto'],
+              message: 'shared/ must not use Node APIs.',
+            },
+            {
+              group: ['vue', 'vue-*', 'konva', 'pinia', 'primevue', 'primevue/*', '@/*'],
+              message: 'shared/ must not depend on the client.',
+            },
+            {
+              group: ['express', 'knex', 'mysql2', 'sharp'],
+              message: 'shared/ must not depend on the server.',
+            },
           ],
         },
       ],
@@ -51,7 +72,12 @@ export default defineConfigWithVueTs(
   },
   {
     // Command-line tools and the process entry point talk to the terminal.
-    files: ['server/cli/**/*.ts', 'server/bench/**/*.ts', 'server/index.ts', 'tests/support/**/*.ts'],
+    files: [
+      'server/cli/**/*.ts',
+      'server/bench/**/*.ts',
+      'server/index.ts',
+      'tests/support/**/*.ts',
+    ],
     rules: { 'no-console': 'off' },
   },
   {

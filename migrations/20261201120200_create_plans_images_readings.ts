@@ -19,7 +19,10 @@ export async function up(knex: Knex): Promise<void> {
     table.boolean('pars_defect_right').notNullable().defaultTo(false)
     table.boolean('facet_degeneration').notNullable().defaultTo(false)
     table.boolean('dynamic_instability').notNullable().defaultTo(false)
-    table.enum('treatment', [...PLANNED_TREATMENTS]).notNullable().defaultTo('none')
+    table
+      .enum('treatment', [...PLANNED_TREATMENTS])
+      .notNullable()
+      .defaultTo('none')
     table.decimal('implant_lordosis_deg', 5, 1).nullable()
     table.decimal('implant_height_mm', 5, 1).nullable()
     table.string('notes', 1000).nullable()
@@ -47,7 +50,10 @@ export async function up(knex: Knex): Promise<void> {
     table.integer('bits_stored').unsigned().notNullable()
     table.double('mm_per_pixel_row').nullable()
     table.double('mm_per_pixel_column').nullable()
-    table.enum('spacing_source', [...SPACING_SOURCES]).notNullable().defaultTo('none')
+    table
+      .enum('spacing_source', [...SPACING_SOURCES])
+      .notNullable()
+      .defaultTo('none')
     table.string('spacing_note', 300).nullable()
     // The manual calibration line and its true length, when one was drawn.
     table.json('manual_calibration').nullable()
@@ -75,7 +81,10 @@ export async function up(knex: Knex): Promise<void> {
     // Results are always computed by the server's copy of the engine from the landmarks.
     table.json('results').notNullable()
     table.string('engine_version', 20).notNullable()
-    table.enum('status', [...READING_STATUSES]).notNullable().defaultTo('draft')
+    table
+      .enum('status', [...READING_STATUSES])
+      .notNullable()
+      .defaultTo('draft')
     table.integer('version').unsigned().notNullable().defaultTo(1)
     table.boolean('blinded').notNullable().defaultTo(false)
     table.integer('round_id').unsigned().nullable()

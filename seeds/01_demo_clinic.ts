@@ -63,6 +63,7 @@ export async function seed(knex: Knex): Promise<void> {
         updated_by: surgeonId,
       })
     }
-    if (patient.inStudy) await knex(TABLES.studyPatients).insert({ study_id: studyId, patient_id: patientId })
+    if (patient.inStudy)
+      await knex(TABLES.studyPatients).insert({ study_id: studyId, patient_id: patientId })
   }
 }

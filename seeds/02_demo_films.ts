@@ -18,8 +18,18 @@ export async function seed(knex: Knex): Promise<void> {
   if (process.env.NODE_ENV === 'production') throw new Error('Demo seeds never run in production.')
   if (process.env.NODE_ENV === 'test' && process.env.ENDPLATE_SEED_FILMS !== '1') return
 
-  const fellow = await knex(TABLES.users).where({ email: 'priya.lindqvist@endplate.example' }).first()
-  const actor = { user: { id: fellow.id, email: fellow.email, displayName: fellow.display_name, role: fellow.role }, ip: null }
+  const fellow = await knex(TABLES.users)
+    .where({ email: 'priya.lindqvist@endplate.example' })
+    .first()
+  const actor = {
+    user: {
+      id: fellow.id,
+      email: fellow.email,
+      displayName: fellow.display_name,
+      role: fellow.role,
+    },
+    ip: null,
+  }
   const store = createLocalFileStore(config.uploadDirAbsolute)
   const tmpDir = join(config.uploadDirAbsolute, 'tmp')
   await mkdir(tmpDir, { recursive: true })
@@ -28,13 +38,24 @@ export async function seed(knex: Knex): Promise<void> {
     const patient = DEMO_PATIENTS.find((candidate) => candidate.key === film.patientKey)
     const visitPlan = patient?.visits[film.visitIndex]
     if (!patient || !visitPlan) throw new Error(`Demo film ${film.preset} names no demo visit`)
-    const patientRow = await knex(TABLES.patients).where({ record_number: patient.recordNumber }).first()
-    const visitRow = await knex(TABLES.visits).where({ patient_id: patientRow.id, visit_date: visitPlan.date }).first()
+    const patientRow = await knex(TABLES.patients)
+      .where({ record_number: patient.recordNumber })
+      .first()
+    const visitRow = await knex(TABLES.visits)
+      .where({ patient_id: patientRow.id, visit_date: visitPlan.date })
+      .first()
     const bytes = phantomDicom(await generatePhantom(demoFilmParams(film, patient, visitPlan)))
     const path = join(tmpDir, `demo-${film.preset}-${film.seed}.upload`)
     await writeFile(path, bytes)
     await uploadImages(knex, store, actor, visitRow.id, {
-      files: [{ path, size: bytes.length, sha256: createHash('sha256').update(bytes).digest('hex'), originalName: `${film.preset}.dcm` }],
+      files: [
+        {
+          path,
+          size: bytes.length,
+          sha256: createHash('sha256').update(bytes).digest('hex'),
+          originalName: `${film.preset}.dcm`,
+        },
+      ],
       views: [],
       confirmPatientMismatch: false,
     })

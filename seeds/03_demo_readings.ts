@@ -10,7 +10,11 @@ import type { PixelPoint } from '../shared/types/landmarks'
 import type { Actor } from '../server/services/audit'
 
 /** A human hand: each landmark a little off the exact corner (about 1 px SD), reproducibly. */
-function asPlacedByHand(points: Record<string, PixelPoint>, names: string[], seed: number): Record<string, PixelPoint> {
+function asPlacedByHand(
+  points: Record<string, PixelPoint>,
+  names: string[],
+  seed: number,
+): Record<string, PixelPoint> {
   const random = seededRandom(seed)
   const jitter = () => (random() + random() + random() - 1.5) * 2
   const placed: Record<string, PixelPoint> = {}
@@ -23,12 +27,16 @@ function asPlacedByHand(points: Record<string, PixelPoint>, names: string[], see
 
 async function actorFor(knex: Knex, email: string): Promise<Actor> {
   const row = await knex(TABLES.users).where({ email }).first()
-  return { user: { id: row.id, email: row.email, displayName: row.display_name, role: row.role }, ip: null }
+  return {
+    user: { id: row.id, email: row.email, displayName: row.display_name, role: row.role },
+    ip: null,
+  }
 }
 
 function groundTruth(film: DemoFilm): Record<string, PixelPoint> {
   const patient = DEMO_PATIENTS.find((candidate) => candidate.key === film.patientKey)!
-  return phantomGroundTruth(demoFilmParams(film, patient, patient.visits[film.visitIndex]!)).landmarks.points
+  return phantomGroundTruth(demoFilmParams(film, patient, patient.visits[film.visitIndex]!))
+    .landmarks.points
 }
 
 /**
@@ -38,17 +46,31 @@ function groundTruth(film: DemoFilm): Record<string, PixelPoint> {
 export async function seed(knex: Knex): Promise<void> {
   if (process.env.NODE_ENV === 'production') throw new Error('Demo seeds never run in production.')
   if (process.env.NODE_ENV === 'test' && process.env.ENDPLATE_SEED_FILMS !== '1') return
-  const fellows = [await actorFor(knex, 'priya.lindqvist@endplate.example'), await actorFor(knex, 'jonah.ferris@endplate.example')]
+  const fellows = [
+    await actorFor(knex, 'priya.lindqvist@endplate.example'),
+    await actorFor(knex, 'jonah.ferris@endplate.example'),
+  ]
 
   for (const [index, film] of DEMO_FILMS.entries()) {
     if (!film.reading) continue
-    const image = await knex(TABLES.images).where({ original_name: `${film.preset}.dcm` }).first()
+    const image = await knex(TABLES.images)
+      .where({ original_name: `${film.preset}.dcm` })
+      .first()
     if (!image) throw new Error(`Demo film ${film.preset} was not filed`)
     const actor = fellows[index % fellows.length]!
-    const names = templateLandmarks(film.reading.template, film.reading.options).map((spec) => spec.name)
+    const names = templateLandmarks(film.reading.template, film.reading.options).map(
+      (spec) => spec.name,
+    )
     const points = asPlacedByHand(groundTruth(film), names, film.seed)
-    const pairedFilm = film.reading.template === 'motion-pair' ? DEMO_FILMS.find((other) => other.preset === 'motion-extension') : undefined
-    const pairedImage = pairedFilm ? await knex(TABLES.images).where({ original_name: `${pairedFilm.preset}.dcm` }).first() : undefined
+    const pairedFilm =
+      film.reading.template === 'motion-pair'
+        ? DEMO_FILMS.find((other) => other.preset === 'motion-extension')
+        : undefined
+    const pairedImage = pairedFilm
+      ? await knex(TABLES.images)
+          .where({ original_name: `${pairedFilm.preset}.dcm` })
+          .first()
+      : undefined
     let reading = await createReading(knex, actor, image.id, {
       template: film.reading.template,
       options: film.reading.options,
@@ -57,7 +79,11 @@ export async function seed(knex: Knex): Promise<void> {
     })
     if (pairedFilm) {
       const pairedPoints = asPlacedByHand(groundTruth(pairedFilm), names, pairedFilm.seed)
-      reading = await patchReading(knex, actor, reading.id, { points, pairedPoints, version: reading.version })
+      reading = await patchReading(knex, actor, reading.id, {
+        points,
+        pairedPoints,
+        version: reading.version,
+      })
     }
     if (film.reading.submit) await submitReading(knex, actor, reading.id, reading.version)
   }

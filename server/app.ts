@@ -36,7 +36,13 @@ export interface AppDependencies {
   store?: FileStore
 }
 
-export function createApp({ db, config, logger, clientDir = join(projectRoot, 'dist'), store = createLocalFileStore(config.uploadDirAbsolute) }: AppDependencies): Express {
+export function createApp({
+  db,
+  config,
+  logger,
+  clientDir = join(projectRoot, 'dist'),
+  store = createLocalFileStore(config.uploadDirAbsolute),
+}: AppDependencies): Express {
   const app = express()
   app.disable('x-powered-by')
   app.set('trust proxy', 'loopback')
@@ -59,7 +65,13 @@ export function createApp({ db, config, logger, clientDir = join(projectRoot, 'd
       strictTransportSecurity: config.NODE_ENV === 'production',
     }),
   )
-  app.use(pinoHttp({ logger, autoLogging: { ignore: (req) => req.url === '/api/health' }, serializers: { req: (req) => ({ method: req.method, url: String(req.url).split('?')[0] }) } }))
+  app.use(
+    pinoHttp({
+      logger,
+      autoLogging: { ignore: (req) => req.url === '/api/health' },
+      serializers: { req: (req) => ({ method: req.method, url: String(req.url).split('?')[0] }) },
+    }),
+  )
   app.use(cookieParser())
   app.use(express.json({ limit: '2mb' }))
 
@@ -86,7 +98,14 @@ export function createApp({ db, config, logger, clientDir = join(projectRoot, 'd
   api.use(requireSession)
   api.use('/patients', patientsRouter(db))
   api.use('/patients', plansRouter(db))
-  api.use('/visits', visitsRouter(db, { store, uploadTmpDir: join(config.uploadDirAbsolute, 'tmp'), uploadMaxMb: config.UPLOAD_MAX_MB }))
+  api.use(
+    '/visits',
+    visitsRouter(db, {
+      store,
+      uploadTmpDir: join(config.uploadDirAbsolute, 'tmp'),
+      uploadMaxMb: config.UPLOAD_MAX_MB,
+    }),
+  )
   api.use('/images', imagesRouter(db, store))
   api.use(readingsRouter(db))
   api.use('/users', usersRouter(db))
@@ -96,10 +115,17 @@ export function createApp({ db, config, logger, clientDir = join(projectRoot, 'd
   app.use('/api', api)
 
   if (existsSync(join(clientDir, 'index.html'))) {
-    app.use(express.static(clientDir, { index: false, maxAge: '1h', setHeaders: (res, path) => {
-      // Vite fingerprints everything under assets/, so those files never change.
-      if (path.includes('/assets/')) res.setHeader('Cache-Control', 'public, max-age=31536000, immutable')
-    } }))
+    app.use(
+      express.static(clientDir, {
+        index: false,
+        maxAge: '1h',
+        setHeaders: (res, path) => {
+          // Vite fingerprints everything under assets/, so those files never change.
+          if (path.includes('/assets/'))
+            res.setHeader('Cache-Control', 'public, max-age=31536000, immutable')
+        },
+      }),
+    )
     app.get('/{*splat}', (_req, res) => {
       res.setHeader('Cache-Control', 'no-cache')
       res.sendFile(join(clientDir, 'index.html'))

@@ -17,13 +17,27 @@ const envSchema = z.object({
   PORT: z.coerce.number().int().min(0).max(65535).default(4780),
   DB_HOST: z.string().default('127.0.0.1'),
   DB_PORT: z.coerce.number().int().min(1).max(65535).default(4781),
-  DB_NAME: z.string().regex(/^[a-z0-9_]+$/).default('endplate'),
-  DB_TEST_NAME: z.string().regex(/^[a-z0-9_]+$/).default('endplate_test'),
-  DB_USER: z.string().regex(/^[a-z0-9_]+$/).default('endplate'),
+  DB_NAME: z
+    .string()
+    .regex(/^[a-z0-9_]+$/)
+    .default('endplate'),
+  DB_TEST_NAME: z
+    .string()
+    .regex(/^[a-z0-9_]+$/)
+    .default('endplate_test'),
+  DB_USER: z
+    .string()
+    .regex(/^[a-z0-9_]+$/)
+    .default('endplate'),
   DB_PASSWORD: z.string().min(1),
   DB_DATA_DIR: z.string().default('.data/mariadb'),
   JWT_SECRET: z.string().min(16, 'JWT_SECRET must be at least 16 characters'),
-  SESSION_MINUTES: z.coerce.number().int().min(1).max(24 * 60).default(30),
+  SESSION_MINUTES: z.coerce
+    .number()
+    .int()
+    .min(1)
+    .max(24 * 60)
+    .default(30),
   LOGIN_MAX_FAILURES: z.coerce.number().int().min(1).default(5),
   LOGIN_RATE_LIMIT_PER_MINUTE: z.coerce.number().int().min(1).default(20),
   UPLOAD_DIR: z.string().default('uploads'),

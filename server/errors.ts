@@ -14,7 +14,8 @@ export class HttpError extends Error {
 export const badRequest = (message: string, details?: Record<string, string[]>) =>
   new HttpError(400, 'validation_failed', message, details)
 
-export const unauthorized = (message = 'Please sign in.') => new HttpError(401, 'unauthorized', message)
+export const unauthorized = (message = 'Please sign in.') =>
+  new HttpError(401, 'unauthorized', message)
 
 export const forbidden = (message = 'Your role does not allow this.') =>
   new HttpError(403, 'forbidden', message)

@@ -23,7 +23,12 @@ export function newSessionId(): string {
 }
 
 /** Signs a short-lived session token (HS256) naming the user, the role and the session. */
-export function signSessionToken(userId: number, role: Role, settings: TokenSettings, sessionId = newSessionId()): string {
+export function signSessionToken(
+  userId: number,
+  role: Role,
+  settings: TokenSettings,
+  sessionId = newSessionId(),
+): string {
   return jwt.sign({ role, sid: sessionId }, settings.secret, {
     algorithm: 'HS256',
     subject: String(userId),
@@ -35,7 +40,12 @@ export function signSessionToken(userId: number, role: Role, settings: TokenSett
 export function verifySessionToken(token: string, secret: string): SessionClaims | null {
   try {
     const claims = jwt.verify(token, secret, { algorithms: ['HS256'] })
-    if (typeof claims === 'string' || typeof claims.sub !== 'string' || typeof claims.sid !== 'string') return null
+    if (
+      typeof claims === 'string' ||
+      typeof claims.sub !== 'string' ||
+      typeof claims.sid !== 'string'
+    )
+      return null
     return claims as SessionClaims
   } catch {
     return null

@@ -8,7 +8,10 @@ export interface RunningDatabase {
 }
 
 /** Starts (or reuses) the project's MariaDB and makes sure the given databases and user exist. */
-export async function bringUpDatabase(config: AppConfig, databases: string[]): Promise<RunningDatabase> {
+export async function bringUpDatabase(
+  config: AppConfig,
+  databases: string[],
+): Promise<RunningDatabase> {
   const paths = mariaDbPaths(config.dataDirAbsolute)
   const startedHere = await startMariaDb(paths, config.DB_PORT)
   console.log(

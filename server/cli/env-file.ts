@@ -20,7 +20,9 @@ export function ensureEnvFile(): void {
     const current = line.exec(text)?.[1]?.trim()
     if (current && !current.startsWith('change-me')) continue
     const secret = randomBytes(32).toString('base64url')
-    text = line.test(text) ? text.replace(line, `${key}=${secret}`) : `${text.trimEnd()}\n${key}=${secret}\n`
+    text = line.test(text)
+      ? text.replace(line, `${key}=${secret}`)
+      : `${text.trimEnd()}\n${key}=${secret}\n`
     changed = true
   }
   if (changed) {

@@ -130,7 +130,8 @@ export async function ensureDatabases(
     `CREATE USER IF NOT EXISTS ${sqlString(user)}@'127.0.0.1' IDENTIFIED BY ${sqlString(password)};`,
     `ALTER USER ${sqlString(user)}@'127.0.0.1' IDENTIFIED BY ${sqlString(password)};`,
     ...databases.map(
-      (name) => `GRANT ALL PRIVILEGES ON \`${name.replace(/_/g, '\\_')}%\`.* TO ${sqlString(user)}@'127.0.0.1';`,
+      (name) =>
+        `GRANT ALL PRIVILEGES ON \`${name.replace(/_/g, '\\_')}%\`.* TO ${sqlString(user)}@'127.0.0.1';`,
     ),
     'FLUSH PRIVILEGES;',
   ]

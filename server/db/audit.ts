@@ -37,12 +37,25 @@ export async function listAuditEvents(
   db: Db,
   filter: { entity?: string; entityId?: string; offset: number; limit: number },
 ): Promise<{ items: AuditEventRecord[]; total: number }> {
-  const base = db(`${TABLES.auditEvents} as a`).leftJoin(`${TABLES.users} as u`, 'u.id', 'a.user_id')
+  const base = db(`${TABLES.auditEvents} as a`).leftJoin(
+    `${TABLES.users} as u`,
+    'u.id',
+    'a.user_id',
+  )
   if (filter.entity) base.where('a.entity', filter.entity)
   if (filter.entityId) base.where('a.entity_id', filter.entityId)
   const [{ total }] = (await base.clone().count({ total: '*' })) as [{ total: number }]
   const rows = await base
-    .select('a.id', 'a.at', 'a.user_id', 'u.display_name', 'a.action', 'a.entity', 'a.entity_id', 'a.summary')
+    .select(
+      'a.id',
+      'a.at',
+      'a.user_id',
+      'u.display_name',
+      'a.action',
+      'a.entity',
+      'a.entity_id',
+      'a.summary',
+    )
     .orderBy('a.id', 'desc')
     .offset(filter.offset)
     .limit(filter.limit)

@@ -49,7 +49,6 @@ export interface ImageRow {
 
 type RawRow = Record<string, unknown>
 
-
 function toImage(row: RawRow): ImageRow {
   return {
     id: row.id as number,
@@ -92,14 +91,22 @@ export async function listImagesOfVisit(db: Db, visitId: number): Promise<ImageR
   return rows.map(toImage)
 }
 
-export async function findImageByHash(db: Db, visitId: number, contentHash: string): Promise<ImageRow | undefined> {
-  const row = (await db(TABLES.images).where({ visit_id: visitId, content_hash: contentHash }).first()) as RawRow | undefined
+export async function findImageByHash(
+  db: Db,
+  visitId: number,
+  contentHash: string,
+): Promise<ImageRow | undefined> {
+  const row = (await db(TABLES.images)
+    .where({ visit_id: visitId, content_hash: contentHash })
+    .first()) as RawRow | undefined
   return row ? toImage(row) : undefined
 }
 
 /** How many stored images still point at a content hash (files are shared across visits). */
 export async function countImagesWithHash(db: Db, contentHash: string): Promise<number> {
-  const [{ count }] = (await db(TABLES.images).where({ content_hash: contentHash }).count({ count: '*' })) as [{ count: number | string }]
+  const [{ count }] = (await db(TABLES.images)
+    .where({ content_hash: contentHash })
+    .count({ count: '*' })) as [{ count: number | string }]
   return Number(count)
 }
 
@@ -138,7 +145,12 @@ export async function updateImageCalibration(
   db: Db,
   id: number,
   expectedVersion: number,
-  calibration: { mmPerPixelRow: number; mmPerPixelColumn: number; manual: ManualCalibration; note: string },
+  calibration: {
+    mmPerPixelRow: number
+    mmPerPixelColumn: number
+    manual: ManualCalibration
+    note: string
+  },
 ): Promise<boolean> {
   const changed = await db(TABLES.images)
     .where({ id, version: expectedVersion })
@@ -153,7 +165,6 @@ export async function updateImageCalibration(
     })
   return changed === 1
 }
-
 
 export async function countReadingsOfImage(db: Db, imageId: number): Promise<number> {
   const [{ count }] = (await db(TABLES.readings)

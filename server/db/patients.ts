@@ -80,9 +80,21 @@ function selectPatients(db: Db): Knex.QueryBuilder {
   return db(`${TABLES.patients} as p`)
     .leftJoin(visitStats, 'v.patient_id', 'p.id')
     .select(
-      'p.id', 'p.record_number', 'p.family_name', 'p.given_name', 'p.birth_date', 'p.sex',
-      'p.study_code', 'p.osteoporosis', 'p.notes', 'p.version', 'p.created_at', 'p.updated_at',
-      db.raw('COALESCE(v.visit_count, 0) as visit_count'), 'v.first_visit_date', 'v.last_visit_date',
+      'p.id',
+      'p.record_number',
+      'p.family_name',
+      'p.given_name',
+      'p.birth_date',
+      'p.sex',
+      'p.study_code',
+      'p.osteoporosis',
+      'p.notes',
+      'p.version',
+      'p.created_at',
+      'p.updated_at',
+      db.raw('COALESCE(v.visit_count, 0) as visit_count'),
+      'v.first_visit_date',
+      'v.last_visit_date',
     )
 }
 
@@ -112,7 +124,10 @@ function escapeLike(text: string): string {
   return text.replace(/[\\%_]/g, (c) => `\\${c}`)
 }
 
-export async function searchPatients(db: Db, search: PatientSearch): Promise<{ items: PatientRecord[]; total: number }> {
+export async function searchPatients(
+  db: Db,
+  search: PatientSearch,
+): Promise<{ items: PatientRecord[]; total: number }> {
   const query = selectPatients(db)
   if (search.researcherId !== undefined) scopeToResearcher(db, query, search.researcherId)
   const q = search.q?.trim()
@@ -130,7 +145,9 @@ export async function searchPatients(db: Db, search: PatientSearch): Promise<{ i
       }
     })
   }
-  const countQuery = db.from(query.clone().clearSelect().clearOrder().select('p.id').as('matches')).count({ total: '*' })
+  const countQuery = db
+    .from(query.clone().clearSelect().clearOrder().select('p.id').as('matches'))
+    .count({ total: '*' })
   const [{ total }] = (await countQuery) as [{ total: number | string }]
   const rows = (await query
     .orderBy(SORT_COLUMNS[search.sort], search.order)
@@ -140,7 +157,11 @@ export async function searchPatients(db: Db, search: PatientSearch): Promise<{ i
   return { items: rows.map(toPatient), total: Number(total) }
 }
 
-export async function findPatient(db: Db, id: number, researcherId?: number): Promise<PatientRecord | undefined> {
+export async function findPatient(
+  db: Db,
+  id: number,
+  researcherId?: number,
+): Promise<PatientRecord | undefined> {
   const query = selectPatients(db).where('p.id', id)
   if (researcherId !== undefined) scopeToResearcher(db, query, researcherId)
   const row = (await query.first()) as PatientRow | undefined
@@ -157,7 +178,10 @@ export interface PatientWrite {
   notes: string | null
 }
 
-export async function insertPatient(db: Db, patient: PatientWrite & { studyCode: string; createdBy: number }): Promise<number> {
+export async function insertPatient(
+  db: Db,
+  patient: PatientWrite & { studyCode: string; createdBy: number },
+): Promise<number> {
   const [id] = await db(TABLES.patients).insert({
     record_number: patient.recordNumber,
     family_name: patient.familyName,
@@ -172,7 +196,10 @@ export async function insertPatient(db: Db, patient: PatientWrite & { studyCode:
   return id as number
 }
 
-export async function findPatientIdByRecordNumber(db: Db, recordNumber: string): Promise<number | undefined> {
+export async function findPatientIdByRecordNumber(
+  db: Db,
+  recordNumber: string,
+): Promise<number | undefined> {
   const row = await db(TABLES.patients).where({ record_number: recordNumber }).first('id')
   return row?.id as number | undefined
 }
@@ -182,7 +209,12 @@ export async function studyCodeExists(db: Db, studyCode: string): Promise<boolea
 }
 
 /** Updates only when the stored version matches; returns whether a row changed. */
-export async function updatePatient(db: Db, id: number, expectedVersion: number, patch: Partial<PatientWrite>): Promise<boolean> {
+export async function updatePatient(
+  db: Db,
+  id: number,
+  expectedVersion: number,
+  patch: Partial<PatientWrite>,
+): Promise<boolean> {
   const columns: Record<string, unknown> = {}
   if (patch.recordNumber !== undefined) columns.record_number = patch.recordNumber
   if (patch.familyName !== undefined) columns.family_name = patch.familyName

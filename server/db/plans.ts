@@ -157,7 +157,6 @@ export interface PatientReadingSummary {
   monthsSinceSurgery: number | null
 }
 
-
 /**
  * Every reading of a patient (drafts included: callers choose), superseded readings excluded,
  * newest first: latest visit, then last submitted (or started), then highest id.

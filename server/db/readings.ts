@@ -14,7 +14,6 @@ export interface ReadingRecord extends Omit<Reading, 'createdAt' | 'updatedAt'> 
 
 type RawRow = Record<string, unknown>
 
-
 const COLUMNS = [
   'r.id',
   'r.image_id',

@@ -4,9 +4,15 @@ import { TABLES } from './tables'
 export async function revokeSession(db: Db, sessionId: string, expiresAt: Date): Promise<void> {
   // Expired entries can go: their tokens are refused on expiry alone.
   await db(TABLES.revokedSessions).where('expires_at', '<', new Date()).delete()
-  await db(TABLES.revokedSessions).insert({ session_id: sessionId, expires_at: expiresAt }).onConflict('session_id').ignore()
+  await db(TABLES.revokedSessions)
+    .insert({ session_id: sessionId, expires_at: expiresAt })
+    .onConflict('session_id')
+    .ignore()
 }
 
 export async function isSessionRevoked(db: Db, sessionId: string): Promise<boolean> {
-  return (await db(TABLES.revokedSessions).where({ session_id: sessionId }).first('session_id')) !== undefined
+  return (
+    (await db(TABLES.revokedSessions).where({ session_id: sessionId }).first('session_id')) !==
+    undefined
+  )
 }

@@ -16,5 +16,8 @@ export function addReference(
   const builder = table.integer(column).unsigned()
   if (options.nullable) builder.nullable()
   else builder.notNullable()
-  builder.references('id').inTable(referencedTable).onDelete(options.onDelete ?? 'RESTRICT')
+  builder
+    .references('id')
+    .inTable(referencedTable)
+    .onDelete(options.onDelete ?? 'RESTRICT')
 }

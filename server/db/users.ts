@@ -27,7 +27,17 @@ interface UserRow {
   created_at: Date
 }
 
-const COLUMNS = ['id', 'email', 'display_name', 'role', 'active', 'failed_attempts', 'locked_until', 'last_login_at', 'created_at']
+const COLUMNS = [
+  'id',
+  'email',
+  'display_name',
+  'role',
+  'active',
+  'failed_attempts',
+  'locked_until',
+  'last_login_at',
+  'created_at',
+]
 
 function toUser(row: UserRow): UserRecord {
   return {
@@ -50,7 +60,10 @@ export async function findUserById(db: Db, id: number): Promise<UserRecord | und
 }
 
 /** The account with its password hash, for sign-in only. */
-export async function findUserForLogin(db: Db, email: string): Promise<(UserRecord & { passwordHash: string }) | undefined> {
+export async function findUserForLogin(
+  db: Db,
+  email: string,
+): Promise<(UserRecord & { passwordHash: string }) | undefined> {
   const row = (await db(TABLES.users)
     .select([...COLUMNS, 'password_hash'])
     .where({ email: email.toLowerCase() })
@@ -59,16 +72,28 @@ export async function findUserForLogin(db: Db, email: string): Promise<(UserReco
 }
 
 /** Counts a failure; `restart` counts it as the first after an expired lock. */
-export async function recordFailedLogin(db: Db, id: number, lockUntil: Date | null, restart = false): Promise<void> {
+export async function recordFailedLogin(
+  db: Db,
+  id: number,
+  lockUntil: Date | null,
+  restart = false,
+): Promise<void> {
   await db(TABLES.users)
     .where({ id })
-    .update({ failed_attempts: restart ? 1 : db.raw('failed_attempts + 1'), locked_until: lockUntil, updated_at: new Date() })
+    .update({
+      failed_attempts: restart ? 1 : db.raw('failed_attempts + 1'),
+      locked_until: lockUntil,
+      updated_at: new Date(),
+    })
 }
 
 export async function recordSuccessfulLogin(db: Db, id: number): Promise<void> {
-  await db(TABLES.users)
-    .where({ id })
-    .update({ failed_attempts: 0, locked_until: null, last_login_at: new Date(), updated_at: new Date() })
+  await db(TABLES.users).where({ id }).update({
+    failed_attempts: 0,
+    locked_until: null,
+    last_login_at: new Date(),
+    updated_at: new Date(),
+  })
 }
 
 export interface NewUser {

@@ -25,7 +25,16 @@ interface VisitRow {
   created_at: Date
 }
 
-const COLUMNS = ['id', 'patient_id', 'visit_date', 'kind', 'months_since_surgery', 'indication', 'version', 'created_at']
+const COLUMNS = [
+  'id',
+  'patient_id',
+  'visit_date',
+  'kind',
+  'months_since_surgery',
+  'indication',
+  'version',
+  'created_at',
+]
 
 function toVisit(row: VisitRow): VisitRecord {
   return {
@@ -53,7 +62,8 @@ export async function listVisitsOfPatient(db: Db, patientId: number): Promise<Vi
 }
 
 export async function findVisit(db: Db, id: number): Promise<VisitRecord | undefined> {
-  const row = (await db(TABLES.visits).select(COLUMNS).where({ id }).first()) as VisitRow | undefined
+  const row = (await db(TABLES.visits).select(COLUMNS).where({ id }).first()) as
+    VisitRow | undefined
   return row ? toVisit(row) : undefined
 }
 
@@ -64,7 +74,10 @@ export interface VisitWrite {
   indication: string | null
 }
 
-export async function insertVisit(db: Db, visit: VisitWrite & { patientId: number; createdBy: number }): Promise<number> {
+export async function insertVisit(
+  db: Db,
+  visit: VisitWrite & { patientId: number; createdBy: number },
+): Promise<number> {
   const [id] = await db(TABLES.visits).insert({
     patient_id: visit.patientId,
     visit_date: visit.visitDate,
@@ -76,11 +89,17 @@ export async function insertVisit(db: Db, visit: VisitWrite & { patientId: numbe
   return id as number
 }
 
-export async function updateVisit(db: Db, id: number, expectedVersion: number, patch: Partial<VisitWrite>): Promise<boolean> {
+export async function updateVisit(
+  db: Db,
+  id: number,
+  expectedVersion: number,
+  patch: Partial<VisitWrite>,
+): Promise<boolean> {
   const columns: Record<string, unknown> = {}
   if (patch.visitDate !== undefined) columns.visit_date = patch.visitDate
   if (patch.kind !== undefined) columns.kind = patch.kind
-  if (patch.monthsSinceSurgery !== undefined) columns.months_since_surgery = patch.monthsSinceSurgery
+  if (patch.monthsSinceSurgery !== undefined)
+    columns.months_since_surgery = patch.monthsSinceSurgery
   if (patch.indication !== undefined) columns.indication = patch.indication
   const changed = await db(TABLES.visits)
     .where({ id, version: expectedVersion })

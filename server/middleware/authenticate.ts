@@ -25,8 +25,18 @@ export function sessionCookieOptions(settings: SessionCookieSettings): CookieOpt
   }
 }
 
-export function setSessionCookie(res: Response, userId: number, role: Role, settings: SessionCookieSettings, sessionId?: string): void {
-  res.cookie(SESSION_COOKIE, signSessionToken(userId, role, settings, sessionId), sessionCookieOptions(settings))
+export function setSessionCookie(
+  res: Response,
+  userId: number,
+  role: Role,
+  settings: SessionCookieSettings,
+  sessionId?: string,
+): void {
+  res.cookie(
+    SESSION_COOKIE,
+    signSessionToken(userId, role, settings, sessionId),
+    sessionCookieOptions(settings),
+  )
 }
 
 /**
@@ -40,13 +50,15 @@ export function authenticate(db: Db, settings: SessionCookieSettings): RequestHa
     if (typeof token !== 'string' || token.length === 0) throw unauthorized()
     const claims = verifySessionToken(token, settings.secret)
     if (!claims) throw unauthorized('Your session has expired or is invalid. Please sign in again.')
-    if (await isSessionRevoked(db, claims.sid)) throw unauthorized('You have signed out. Please sign in again.')
+    if (await isSessionRevoked(db, claims.sid))
+      throw unauthorized('You have signed out. Please sign in again.')
     const user = await findUserById(db, Number(claims.sub))
     if (!user || !user.active) throw unauthorized('This account is not active.')
     req.user = { id: user.id, email: user.email, displayName: user.displayName, role: user.role }
     req.session = { id: claims.sid, expiresAt: new Date(claims.exp * 1000) }
     const halfLifeSeconds = (settings.lifetimeMinutes * 60) / 2
-    if (claims.exp - Date.now() / 1000 < halfLifeSeconds) setSessionCookie(res, user.id, user.role, settings, claims.sid)
+    if (claims.exp - Date.now() / 1000 < halfLifeSeconds)
+      setSessionCookie(res, user.id, user.role, settings, claims.sid)
     next()
   }
 }

@@ -7,8 +7,13 @@ import { auditQuery } from '../schemas/audit'
 
 export function auditEventsRouter(db: Db): Router {
   const router = Router()
-  router.get('/', requirePermission('audit:read'), validate('query', auditQuery), async (_req, res) => {
-    res.json(await readAuditTrail(db, res.locals.query))
-  })
+  router.get(
+    '/',
+    requirePermission('audit:read'),
+    validate('query', auditQuery),
+    async (_req, res) => {
+      res.json(await readAuditTrail(db, res.locals.query))
+    },
+  )
   return router
 }

@@ -23,7 +23,12 @@ export function authRouter(options: AuthRouterOptions): Router {
     limit: options.loginsPerMinute,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
-    message: { error: { code: 'rate_limited', message: 'Too many sign-in attempts. Wait a minute and try again.' } },
+    message: {
+      error: {
+        code: 'rate_limited',
+        message: 'Too many sign-in attempts. Wait a minute and try again.',
+      },
+    },
   })
 
   router.post('/login', loginLimiter, validate('body', loginBody), async (req, res) => {
@@ -34,7 +39,12 @@ export function authRouter(options: AuthRouterOptions): Router {
 
   router.post('/logout', options.authenticate, async (req, res) => {
     await logout(options.db, actorOf(req), req.session ?? null, options.session.lifetimeMinutes)
-    res.clearCookie(SESSION_COOKIE, { path: '/', httpOnly: true, sameSite: 'strict', secure: options.session.secureCookie })
+    res.clearCookie(SESSION_COOKIE, {
+      path: '/',
+      httpOnly: true,
+      sameSite: 'strict',
+      secure: options.session.secureCookie,
+    })
     res.status(204).end()
   })
 

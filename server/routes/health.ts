@@ -17,7 +17,12 @@ export function healthRouter(db: Db): Router {
       }
       res.json(body)
     } catch {
-      const body: HealthStatus = { status: 'degraded', database: 'down', migrations: null, version: APP_VERSION }
+      const body: HealthStatus = {
+        status: 'degraded',
+        database: 'down',
+        migrations: null,
+        version: APP_VERSION,
+      }
       res.status(503).json(body)
     }
   })

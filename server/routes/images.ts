@@ -12,36 +12,63 @@ import { actorOf } from './actor'
 export function imagesRouter(db: Db, store: FileStore): Router {
   const router = Router()
 
-  router.get('/:id', requirePermission('patient:read'), validate('params', idParam), async (req, res) => {
-    res.json(await getImage(db, actorOf(req), res.locals.params.id))
-  })
+  router.get(
+    '/:id',
+    requirePermission('patient:read'),
+    validate('params', idParam),
+    async (req, res) => {
+      res.json(await getImage(db, actorOf(req), res.locals.params.id))
+    },
+  )
 
-  router.delete('/:id', requirePermission('image:upload'), validate('params', idParam), async (req, res) => {
-    await removeImage(db, store, actorOf(req), res.locals.params.id)
-    res.status(204).end()
-  })
+  router.delete(
+    '/:id',
+    requirePermission('image:upload'),
+    validate('params', idParam),
+    async (req, res) => {
+      await removeImage(db, store, actorOf(req), res.locals.params.id)
+      res.status(204).end()
+    },
+  )
 
-  router.patch('/:id/calibration', requirePermission('image:upload'), validate('params', idParam), validate('body', calibrationBody), async (req, res) => {
-    res.json(await calibrateImage(db, actorOf(req), res.locals.params.id, req.body))
-  })
+  router.patch(
+    '/:id/calibration',
+    requirePermission('image:upload'),
+    validate('params', idParam),
+    validate('body', calibrationBody),
+    async (req, res) => {
+      res.json(await calibrateImage(db, actorOf(req), res.locals.params.id, req.body))
+    },
+  )
 
   // Renditions are immutable per content hash (the URL carries it), so browsers may keep them;
   // "private" keeps shared caches from holding patient images.
-  router.get('/:id/files/:name', requirePermission('patient:read'), validate('params', renditionParams), async (req, res) => {
-    const { stream, mediaType, etag } = await openRendition(db, store, actorOf(req), res.locals.params.id, res.locals.params.name)
-    if (req.get('if-none-match') === etag) {
-      stream.destroy()
-      res.status(304).end()
-      return
-    }
-    res.setHeader('Content-Type', mediaType)
-    res.setHeader('Cache-Control', 'private, max-age=31536000, immutable')
-    res.setHeader('ETag', etag)
-    // pipeline destroys the file stream when the browser cancels the download.
-    await pipeline(stream, res).catch((error: NodeJS.ErrnoException) => {
-      if (error.code !== 'ERR_STREAM_PREMATURE_CLOSE') throw error
-    })
-  })
+  router.get(
+    '/:id/files/:name',
+    requirePermission('patient:read'),
+    validate('params', renditionParams),
+    async (req, res) => {
+      const { stream, mediaType, etag } = await openRendition(
+        db,
+        store,
+        actorOf(req),
+        res.locals.params.id,
+        res.locals.params.name,
+      )
+      if (req.get('if-none-match') === etag) {
+        stream.destroy()
+        res.status(304).end()
+        return
+      }
+      res.setHeader('Content-Type', mediaType)
+      res.setHeader('Cache-Control', 'private, max-age=31536000, immutable')
+      res.setHeader('ETag', etag)
+      // pipeline destroys the file stream when the browser cancels the download.
+      await pipeline(stream, res).catch((error: NodeJS.ErrnoException) => {
+        if (error.code !== 'ERR_STREAM_PREMATURE_CLOSE') throw error
+      })
+    },
+  )
 
   return router
 }

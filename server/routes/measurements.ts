@@ -5,17 +5,23 @@ import { validate } from '../middleware/validate'
 import { computeFromDocument, computeWithUncertainty } from '../services/measurements'
 import { computeQuery } from '../schemas/measurements'
 
-
 /** Stateless computation for any signed-in user; the engine validates the document itself. */
 export function measurementsRouter(): Router {
   const router = Router()
-  router.post('/compute', requirePermission('measurement:compute'), validate('query', computeQuery), (req, res) => {
-    const query = res.locals.query as z.infer<typeof computeQuery>
-    if (query.uncertainty === 'true') {
-      res.json(computeWithUncertainty(req.body, { sigmaMm: query.sigmaMm, sigmaPx: query.sigmaPx }))
-      return
-    }
-    res.json(computeFromDocument(req.body))
-  })
+  router.post(
+    '/compute',
+    requirePermission('measurement:compute'),
+    validate('query', computeQuery),
+    (req, res) => {
+      const query = res.locals.query as z.infer<typeof computeQuery>
+      if (query.uncertainty === 'true') {
+        res.json(
+          computeWithUncertainty(req.body, { sigmaMm: query.sigmaMm, sigmaPx: query.sigmaPx }),
+        )
+        return
+      }
+      res.json(computeFromDocument(req.body))
+    },
+  )
   return router
 }

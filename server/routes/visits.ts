@@ -21,17 +21,33 @@ export interface VisitsRouterOptions {
 export function visitsRouter(db: Db, options: VisitsRouterOptions): Router {
   const router = Router()
 
-  router.get('/:id', requirePermission('patient:read'), validate('params', idParam), async (req, res) => {
-    res.json(await getVisit(db, actorOf(req), res.locals.params.id))
-  })
+  router.get(
+    '/:id',
+    requirePermission('patient:read'),
+    validate('params', idParam),
+    async (req, res) => {
+      res.json(await getVisit(db, actorOf(req), res.locals.params.id))
+    },
+  )
 
-  router.patch('/:id', requirePermission('visit:write'), validate('params', idParam), validate('body', patchVisitBody), async (req, res) => {
-    res.json(await patchVisit(db, actorOf(req), res.locals.params.id, req.body))
-  })
+  router.patch(
+    '/:id',
+    requirePermission('visit:write'),
+    validate('params', idParam),
+    validate('body', patchVisitBody),
+    async (req, res) => {
+      res.json(await patchVisit(db, actorOf(req), res.locals.params.id, req.body))
+    },
+  )
 
-  router.get('/:id/images', requirePermission('patient:read'), validate('params', idParam), async (req, res) => {
-    res.json(await listVisitImages(db, actorOf(req), res.locals.params.id))
-  })
+  router.get(
+    '/:id/images',
+    requirePermission('patient:read'),
+    validate('params', idParam),
+    async (req, res) => {
+      res.json(await listVisitImages(db, actorOf(req), res.locals.params.id))
+    },
+  )
 
   // Permission, id and the visit itself are checked before multer streams anything to disk.
   router.post(

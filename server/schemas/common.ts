@@ -13,12 +13,20 @@ export const isoDate = z
  * Not after today anywhere on Earth: the server runs in UTC while a clinic east of it is already
  * in tomorrow, so one day of slack keeps a same-day visit valid in the local morning.
  */
-export const notInFuture = (text: string) => text <= new Date(Date.now() + 86_400_000).toISOString().slice(0, 10)
+export const notInFuture = (text: string) =>
+  text <= new Date(Date.now() + 86_400_000).toISOString().slice(0, 10)
 
 export const idParam = z.object({
-  id: z.coerce.number({ error: 'id must be a number' }).int('id must be a whole number').positive('id must be positive'),
+  id: z.coerce
+    .number({ error: 'id must be a number' })
+    .int('id must be a whole number')
+    .positive('id must be positive'),
 })
 
-export const version = z.number({ error: 'must be the version number you last read' }).int().positive()
+export const version = z
+  .number({ error: 'must be the version number you last read' })
+  .int()
+  .positive()
 
-export const trimmed = (max: number) => z.string().trim().max(max, `must be at most ${max} characters`)
+export const trimmed = (max: number) =>
+  z.string().trim().max(max, `must be at most ${max} characters`)

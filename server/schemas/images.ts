@@ -3,7 +3,9 @@ import { IMAGE_VIEWS } from '../../shared/types/domain'
 import type { CalibrationInput } from '../../shared/types/api'
 import { version } from './common'
 
-const viewValue = z.union([z.enum(IMAGE_VIEWS), z.literal('')], { error: `must be one of ${IMAGE_VIEWS.join(', ')}` })
+const viewValue = z.union([z.enum(IMAGE_VIEWS), z.literal('')], {
+  error: `must be one of ${IMAGE_VIEWS.join(', ')}`,
+})
 
 /** Multipart text fields arrive as strings, or arrays of strings when repeated. */
 export const uploadFields = z.object({
@@ -11,7 +13,10 @@ export const uploadFields = z.object({
     .union([viewValue, z.array(viewValue)])
     .optional()
     .transform((value) => (value === undefined ? [] : Array.isArray(value) ? value : [value])),
-  confirmPatientMismatch: z.enum(['true', 'false'], { error: 'must be true or false' }).optional().transform((value) => value === 'true'),
+  confirmPatientMismatch: z
+    .enum(['true', 'false'], { error: 'must be true or false' })
+    .optional()
+    .transform((value) => value === 'true'),
 })
 
 const coordinate = z.number({ error: 'must be a number' }).finite('must be a finite number')
@@ -19,11 +24,17 @@ const point = z.tuple([coordinate, coordinate], { error: 'must be [x, y]' })
 
 export const calibrationBody = z.strictObject({
   line: z.tuple([point, point], { error: 'must be two points [[x1, y1], [x2, y2]]' }),
-  lengthMm: z.number({ error: 'must be a number of millimetres' }).positive('must be positive').max(1000, 'must be at most 1000 mm').optional(),
+  lengthMm: z
+    .number({ error: 'must be a number of millimetres' })
+    .positive('must be positive')
+    .max(1000, 'must be at most 1000 mm')
+    .optional(),
   version,
 }) satisfies z.ZodType<CalibrationInput>
 
 export const renditionParams = z.object({
   id: z.coerce.number({ error: 'id must be a number' }).int().positive(),
-  name: z.enum(['display', 'preview', 'thumbnail', 'full-depth'], { error: 'must be display, preview, thumbnail or full-depth' }),
+  name: z.enum(['display', 'preview', 'thumbnail', 'full-depth'], {
+    error: 'must be display, preview, thumbnail or full-depth',
+  }),
 })

@@ -32,15 +32,28 @@ export const createPatientBody = z.strictObject(patientFields) satisfies z.ZodTy
 
 export const patchPatientBody = z
   .strictObject({
-    ...Object.fromEntries(Object.entries(patientFields).map(([key, schema]) => [key, schema.optional()])),
+    ...Object.fromEntries(
+      Object.entries(patientFields).map(([key, schema]) => [key, schema.optional()]),
+    ),
     version,
   })
   .transform((value) => value as Partial<PatientInput> & { version: number })
 
 export const patientQuery = z.object({
   q: z.string().trim().max(100, 'must be at most 100 characters').optional(),
-  sort: z.enum(PATIENT_SORT_FIELDS, { error: `must be one of ${PATIENT_SORT_FIELDS.join(', ')}` }).optional(),
+  sort: z
+    .enum(PATIENT_SORT_FIELDS, { error: `must be one of ${PATIENT_SORT_FIELDS.join(', ')}` })
+    .optional(),
   order: z.enum(['asc', 'desc'], { error: 'must be asc or desc' }).optional(),
-  offset: z.coerce.number({ error: 'must be a number' }).int().min(0, 'cannot be negative').optional(),
-  limit: z.coerce.number({ error: 'must be a number' }).int().min(1, 'must be at least 1').max(100, 'must be at most 100').optional(),
+  offset: z.coerce
+    .number({ error: 'must be a number' })
+    .int()
+    .min(0, 'cannot be negative')
+    .optional(),
+  limit: z.coerce
+    .number({ error: 'must be a number' })
+    .int()
+    .min(1, 'must be at least 1')
+    .max(100, 'must be at most 100')
+    .optional(),
 }) satisfies z.ZodType<PatientQuery>

@@ -18,15 +18,33 @@ const visitFields = {
 
 /** A follow-up needs its interval since surgery; the other kinds must not carry one. */
 function checkInterval(value: Partial<VisitInput>, ctx: z.RefinementCtx): void {
-  if (value.visitKind === 'follow-up' && (value.monthsSinceSurgery === undefined || value.monthsSinceSurgery === null)) {
-    ctx.addIssue({ code: 'custom', path: ['monthsSinceSurgery'], message: 'is required for a follow-up visit' })
+  if (
+    value.visitKind === 'follow-up' &&
+    (value.monthsSinceSurgery === undefined || value.monthsSinceSurgery === null)
+  ) {
+    ctx.addIssue({
+      code: 'custom',
+      path: ['monthsSinceSurgery'],
+      message: 'is required for a follow-up visit',
+    })
   }
-  if (value.visitKind && value.visitKind !== 'follow-up' && value.monthsSinceSurgery !== undefined && value.monthsSinceSurgery !== null) {
-    ctx.addIssue({ code: 'custom', path: ['monthsSinceSurgery'], message: 'applies to follow-up visits only' })
+  if (
+    value.visitKind &&
+    value.visitKind !== 'follow-up' &&
+    value.monthsSinceSurgery !== undefined &&
+    value.monthsSinceSurgery !== null
+  ) {
+    ctx.addIssue({
+      code: 'custom',
+      path: ['monthsSinceSurgery'],
+      message: 'applies to follow-up visits only',
+    })
   }
 }
 
-export const createVisitBody = z.strictObject(visitFields).superRefine(checkInterval) satisfies z.ZodType<VisitInput>
+export const createVisitBody = z
+  .strictObject(visitFields)
+  .superRefine(checkInterval) satisfies z.ZodType<VisitInput>
 
 export const patchVisitBody = z
   .strictObject({

@@ -14,7 +14,18 @@ export function actorIdentifies(actor: Actor): boolean {
   return roleCan(actor.user.role, 'patient:identify')
 }
 
-export type AuditAction = 'create' | 'update' | 'delete' | 'view' | 'sign' | 'submit' | 'export' | 'login' | 'login-failed' | 'logout' | 'lockout'
+export type AuditAction =
+  | 'create'
+  | 'update'
+  | 'delete'
+  | 'view'
+  | 'sign'
+  | 'submit'
+  | 'export'
+  | 'login'
+  | 'login-failed'
+  | 'logout'
+  | 'lockout'
 
 export async function audit(
   db: Db,
@@ -24,5 +35,12 @@ export async function audit(
   entityId: string | number | null,
   summary: string,
 ): Promise<void> {
-  await insertAuditEvent(db, { userId: actor?.user.id ?? null, action, entity, entityId, summary, ip: actor?.ip ?? null })
+  await insertAuditEvent(db, {
+    userId: actor?.user.id ?? null,
+    action,
+    entity,
+    entityId,
+    summary,
+    ip: actor?.ip ?? null,
+  })
 }

@@ -17,10 +17,16 @@ export const LOCKOUT_MINUTES = 15
 // both paths take the same time.
 const DUMMY_HASH = '$2b$10$VYe2/tfujan3AC2uoVOx5ONcz6MjdIk7YRz6pds63uX7v1RLCKM9O'
 
-export async function login(db: Db, input: LoginInput, maxFailures: number, ip: string | null): Promise<SessionUser> {
+export async function login(
+  db: Db,
+  input: LoginInput,
+  maxFailures: number,
+  ip: string | null,
+): Promise<SessionUser> {
   const user = await findUserForLogin(db, input.email)
   const passwordMatches = await bcrypt.compare(input.password, user?.passwordHash ?? DUMMY_HASH)
-  const locked = user?.lockedUntil !== null && user?.lockedUntil !== undefined && user.lockedUntil > new Date()
+  const locked =
+    user?.lockedUntil !== null && user?.lockedUntil !== undefined && user.lockedUntil > new Date()
   // Once a lock has run out, counting starts again from zero.
   const lockExpired = user?.lockedUntil !== null && user?.lockedUntil !== undefined && !locked
   if (!user || !user.active || locked || !passwordMatches) {
@@ -30,14 +36,35 @@ export async function login(db: Db, input: LoginInput, maxFailures: number, ip: 
       const lockUntil = reachesLimit ? new Date(Date.now() + LOCKOUT_MINUTES * 60_000) : null
       await recordFailedLogin(db, user.id, lockUntil, lockExpired)
       if (reachesLimit) {
-        await insertAuditEvent(db, { userId: user.id, action: 'lockout', entity: 'user', entityId: user.id, summary: `Locked for ${LOCKOUT_MINUTES} minutes after ${maxFailures} failed sign-ins`, ip })
+        await insertAuditEvent(db, {
+          userId: user.id,
+          action: 'lockout',
+          entity: 'user',
+          entityId: user.id,
+          summary: `Locked for ${LOCKOUT_MINUTES} minutes after ${maxFailures} failed sign-ins`,
+          ip,
+        })
       }
     }
-    await insertAuditEvent(db, { userId: user?.id ?? null, action: 'login-failed', entity: 'user', entityId: user?.id ?? null, summary: 'Failed sign-in', ip })
+    await insertAuditEvent(db, {
+      userId: user?.id ?? null,
+      action: 'login-failed',
+      entity: 'user',
+      entityId: user?.id ?? null,
+      summary: 'Failed sign-in',
+      ip,
+    })
     throw new HttpError(401, 'login_failed', LOGIN_FAILED_MESSAGE)
   }
   await recordSuccessfulLogin(db, user.id)
-  await insertAuditEvent(db, { userId: user.id, action: 'login', entity: 'user', entityId: user.id, summary: 'Signed in', ip })
+  await insertAuditEvent(db, {
+    userId: user.id,
+    action: 'login',
+    entity: 'user',
+    entityId: user.id,
+    summary: 'Signed in',
+    ip,
+  })
   return { id: user.id, email: user.email, displayName: user.displayName, role: user.role }
 }
 
@@ -49,9 +76,16 @@ export async function hashPassword(password: string): Promise<string> {
  * Ends a sign-in. Tokens are stateless, so the session id is refused until the latest token of
  * that session would have expired (a renewal extends it by the lifetime at most).
  */
-export async function logout(db: Db, actor: Actor, session: { id: string; expiresAt: Date } | null, lifetimeMinutes: number): Promise<void> {
+export async function logout(
+  db: Db,
+  actor: Actor,
+  session: { id: string; expiresAt: Date } | null,
+  lifetimeMinutes: number,
+): Promise<void> {
   if (session) {
-    const latestExpiry = new Date(Math.max(session.expiresAt.getTime(), Date.now() + lifetimeMinutes * 60_000))
+    const latestExpiry = new Date(
+      Math.max(session.expiresAt.getTime(), Date.now() + lifetimeMinutes * 60_000),
+    )
     await revokeSession(db, session.id, latestExpiry)
   }
   await audit(db, actor, 'logout', 'user', actor.user.id, 'Signed out')

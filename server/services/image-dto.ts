@@ -5,7 +5,11 @@ import type { ImageRecord } from '../../shared/types/api'
  * The API shape of a stored film. Researchers get no timestamps and no content hash; the
  * header's patient attributes go to clinicians only, and only with `withPatientAttributes`.
  */
-export function toImageRecord(image: ImageRow, identified: boolean, withPatientAttributes = false): ImageRecord {
+export function toImageRecord(
+  image: ImageRow,
+  identified: boolean,
+  withPatientAttributes = false,
+): ImageRecord {
   const base = `/api/images/${image.id}/files`
   // Renditions of an image id never change (they come from its content), so the id versions them.
   const version = `v=${image.id}`
@@ -20,12 +24,19 @@ export function toImageRecord(image: ImageRow, identified: boolean, withPatientA
     height: image.height,
     bitsStored: image.bitsStored,
     mmPerPixel:
-      image.mmPerPixelRow !== null && image.mmPerPixelColumn !== null ? [image.mmPerPixelRow, image.mmPerPixelColumn] : null,
+      image.mmPerPixelRow !== null && image.mmPerPixelColumn !== null
+        ? [image.mmPerPixelRow, image.mmPerPixelColumn]
+        : null,
     spacingSource: image.spacingSource,
     spacingNote: image.spacingNote,
     manualCalibration:
-      calibration && !identified ? { ...calibration, calibratedAt: null, calibratedBy: null } : calibration,
-    window: image.windowCenter !== null && image.windowWidth !== null ? { center: image.windowCenter, width: image.windowWidth } : null,
+      calibration && !identified
+        ? { ...calibration, calibratedAt: null, calibratedBy: null }
+        : calibration,
+    window:
+      image.windowCenter !== null && image.windowWidth !== null
+        ? { center: image.windowCenter, width: image.windowWidth }
+        : null,
     acquiredAt: identified ? image.acquiredAt : null,
     dicom: dicom
       ? {

@@ -1,10 +1,15 @@
-import { computeMeasurements, computeUncertainty, LandmarkDocumentError } from '../../shared/measurement/index'
+import {
+  computeMeasurements,
+  computeUncertainty,
+  LandmarkDocumentError,
+} from '../../shared/measurement/index'
 import type { MeasurementResult } from '../../shared/types/measurement'
 import { HttpError } from '../errors'
 
 /** The engine's refusal of a landmark document, as a 400 that carries the engine's message. */
 function asBadRequest(error: unknown): never {
-  if (error instanceof LandmarkDocumentError) throw new HttpError(400, 'invalid_landmarks', error.message)
+  if (error instanceof LandmarkDocumentError)
+    throw new HttpError(400, 'invalid_landmarks', error.message)
   if (error instanceof RangeError) throw new HttpError(400, 'validation_failed', error.message)
   throw error
 }
@@ -18,7 +23,10 @@ export function computeFromDocument(document: unknown): MeasurementResult {
   }
 }
 
-export function computeWithUncertainty(document: unknown, sigma: { sigmaMm?: number; sigmaPx?: number }) {
+export function computeWithUncertainty(
+  document: unknown,
+  sigma: { sigmaMm?: number; sigmaPx?: number },
+) {
   try {
     const doc = document as Parameters<typeof computeUncertainty>[0]
     return { ...computeMeasurements(doc), uncertainty: computeUncertainty(doc, sigma) }

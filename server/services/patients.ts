@@ -49,7 +49,9 @@ export function toDeidentifiedPatient(record: PatientRecord): DeidentifiedPatien
     id: record.id,
     studyCode: record.studyCode,
     sex: record.sex,
-    ageAtFirstVisitYears: record.firstVisitDate ? deidentifiedAgeInYears(record.birthDate, record.firstVisitDate) : null,
+    ageAtFirstVisitYears: record.firstVisitDate
+      ? deidentifiedAgeInYears(record.birthDate, record.firstVisitDate)
+      : null,
     visitCount: record.visitCount,
   }
 }
@@ -63,7 +65,11 @@ export async function loadVisiblePatient(db: Db, actor: Actor, id: number): Prom
   return record
 }
 
-export async function listPatients(db: Db, actor: Actor, query: PatientQuery): Promise<Page<Patient>> {
+export async function listPatients(
+  db: Db,
+  actor: Actor,
+  query: PatientQuery,
+): Promise<Page<Patient>> {
   const identified = identifies(actor)
   const page = await searchPatients(db, {
     q: query.q,
@@ -80,7 +86,14 @@ export async function listPatients(db: Db, actor: Actor, query: PatientQuery): P
   // trail is read by administrators who may not see names.
   const searchNote = query.q ? ` for a search of ${query.q.length} characters` : ''
   const ids = page.items.map((item) => item.id).join(', ')
-  await audit(db, actor, 'view', 'patient-list', null, `Viewed ${page.items.length} of ${page.total} patients${searchNote}${ids ? ` (ids ${ids})` : ''}`)
+  await audit(
+    db,
+    actor,
+    'view',
+    'patient-list',
+    null,
+    `Viewed ${page.items.length} of ${page.total} patients${searchNote}${ids ? ` (ids ${ids})` : ''}`,
+  )
   return { items: page.items.map(toIdentifiedPatient), total: page.total }
 }
 
@@ -99,7 +112,11 @@ async function uniqueStudyCode(db: Db): Promise<string> {
   throw new Error('Could not generate a unique study code')
 }
 
-async function assertRecordNumberFree(db: Db, recordNumber: string, exceptId?: number): Promise<void> {
+async function assertRecordNumberFree(
+  db: Db,
+  recordNumber: string,
+  exceptId?: number,
+): Promise<void> {
   const existingId = await findPatientIdByRecordNumber(db, recordNumber)
   if (existingId !== undefined && existingId !== exceptId) {
     throw conflict(`A patient with record number ${recordNumber} already exists.`, {
@@ -108,7 +125,11 @@ async function assertRecordNumberFree(db: Db, recordNumber: string, exceptId?: n
   }
 }
 
-export async function createPatient(db: Db, actor: Actor, input: PatientInput): Promise<IdentifiedPatient> {
+export async function createPatient(
+  db: Db,
+  actor: Actor,
+  input: PatientInput,
+): Promise<IdentifiedPatient> {
   return db.transaction(async (trx) => {
     await assertRecordNumberFree(trx, input.recordNumber)
     const id = await insertPatient(trx, {
@@ -129,23 +150,45 @@ export async function createPatient(db: Db, actor: Actor, input: PatientInput): 
   })
 }
 
-export async function patchPatient(db: Db, actor: Actor, id: number, patch: PatientPatch): Promise<IdentifiedPatient> {
+export async function patchPatient(
+  db: Db,
+  actor: Actor,
+  id: number,
+  patch: PatientPatch,
+): Promise<IdentifiedPatient> {
   return db.transaction(async (trx) => {
     const current = await findPatient(trx, id)
     if (!current) throw notFound('patient')
     const { version, ...fields } = patch
-    if (fields.recordNumber !== undefined) await assertRecordNumberFree(trx, fields.recordNumber, id)
-    if (fields.birthDate !== undefined && current.firstVisitDate !== null && fields.birthDate > current.firstVisitDate) {
-      throw badRequest('birthDate: cannot be after the first visit', { birthDate: ['birthDate: cannot be after the first visit'] })
+    if (fields.recordNumber !== undefined)
+      await assertRecordNumberFree(trx, fields.recordNumber, id)
+    if (
+      fields.birthDate !== undefined &&
+      current.firstVisitDate !== null &&
+      fields.birthDate > current.firstVisitDate
+    ) {
+      throw badRequest('birthDate: cannot be after the first visit', {
+        birthDate: ['birthDate: cannot be after the first visit'],
+      })
     }
     const changed = await updatePatient(trx, id, version, fields)
     if (!changed) {
-      throw conflict('Someone else changed this patient since you opened it. Reload to see their changes.', {
-        version: [`version: current version is ${current.version}`],
-      })
+      throw conflict(
+        'Someone else changed this patient since you opened it. Reload to see their changes.',
+        {
+          version: [`version: current version is ${current.version}`],
+        },
+      )
     }
     const changedFields = Object.keys(fields).join(', ') || 'nothing'
-    await audit(trx, actor, 'update', 'patient', id, `Updated patient ${current.studyCode}: ${changedFields}`)
+    await audit(
+      trx,
+      actor,
+      'update',
+      'patient',
+      id,
+      `Updated patient ${current.studyCode}: ${changedFields}`,
+    )
     const record = await findPatient(trx, id)
     if (!record) throw notFound('patient')
     return toIdentifiedPatient(record)

@@ -95,7 +95,10 @@ export function computeReadingResults(input: ResultsInput): ReadingResults {
     uncertainty,
     motion,
     subsidence,
-    subsidenceBaselineReadingId: subsidence === null ? null : Math.min(...Object.values(subsidence).map((entry) => entry.baselineReadingId)),
+    subsidenceBaselineReadingId:
+      subsidence === null
+        ? null
+        : Math.min(...Object.values(subsidence).map((entry) => entry.baselineReadingId)),
   }
   assertFinite(results, 'results')
   return results

@@ -203,10 +203,16 @@ export async function createReading(
       : null
   const points = input.points ?? {}
   checkPoints('points', points, input.template, options, image)
-  if (input.template === 'construct-check' && (await findVisit(db, image.visitId))?.kind === 'pre-op') {
-    throw badRequest('template: a construct check reads a film taken after surgery; this film belongs to a pre-op visit', {
-      template: ['template: construct-check needs a post-op or follow-up film'],
-    })
+  if (
+    input.template === 'construct-check' &&
+    (await findVisit(db, image.visitId))?.kind === 'pre-op'
+  ) {
+    throw badRequest(
+      'template: a construct check reads a film taken after surgery; this film belongs to a pre-op visit',
+      {
+        template: ['template: construct-check needs a post-op or follow-up film'],
+      },
+    )
   }
   return db.transaction(async (trx) => {
     const computation = await compute(trx, {
@@ -245,7 +251,9 @@ export async function getReading(db: Db, actor: Actor, id: number): Promise<Read
 
 export async function listImageReadings(db: Db, actor: Actor, imageId: number): Promise<Reading[]> {
   await loadVisibleImage(db, actor, imageId)
-  return (await listReadingsOfImage(db, imageId)).map((reading) => toReadingDto(reading, actorIdentifies(actor)))
+  return (await listReadingsOfImage(db, imageId)).map((reading) =>
+    toReadingDto(reading, actorIdentifies(actor)),
+  )
 }
 
 /** Rater only, drafts only, and only from the version the rater last saw. */
@@ -290,7 +298,13 @@ class GuardedWriteRefused extends Error {}
  * Runs a write transaction; when its guarded UPDATE is refused, answers the 409 from a fresh
  * read after the rollback (inside the transaction the snapshot predates the competing write).
  */
-async function guardedWrite<T>(db: Db, id: number, actor: Actor, version: number, work: (trx: Db) => Promise<T>): Promise<T> {
+async function guardedWrite<T>(
+  db: Db,
+  id: number,
+  actor: Actor,
+  version: number,
+  work: (trx: Db) => Promise<T>,
+): Promise<T> {
   try {
     return await db.transaction(work)
   } catch (error) {
@@ -385,8 +399,7 @@ export async function submitReading(
       points: reading.landmarks.points,
       pairedPoints: reading.pairedLandmarks?.points ?? null,
     })
-    if (!(await submitDraftReading(trx, id, version, computation)))
-      throw new GuardedWriteRefused()
+    if (!(await submitDraftReading(trx, id, version, computation))) throw new GuardedWriteRefused()
     await audit(
       trx,
       actor,

@@ -19,7 +19,10 @@ export interface FileStore {
 
 /** Keys must be relative, slash-separated and free of `..`, whatever calls the store. */
 export function assertSafeKey(key: string): void {
-  if (!/^[a-z0-9][a-z0-9/_.-]*$/.test(key) || key.split('/').some((part) => part === '..' || part === '.' || part === '')) {
+  if (
+    !/^[a-z0-9][a-z0-9/_.-]*$/.test(key) ||
+    key.split('/').some((part) => part === '..' || part === '.' || part === '')
+  ) {
     throw new Error(`Unsafe storage key: ${key}`)
   }
 }

@@ -56,8 +56,18 @@ const sacralWall: LandmarkSpec = {
 }
 
 const femoralHeads: LandmarkSpec[] = [
-  { name: 'FH1', label: 'Femoral head centre 1', hint: 'Centre of the nearer femoral head (the larger circle).', kind: 'femoral-head' },
-  { name: 'FH2', label: 'Femoral head centre 2', hint: 'Centre of the other femoral head; skip it when the heads superimpose.', kind: 'femoral-head' },
+  {
+    name: 'FH1',
+    label: 'Femoral head centre 1',
+    hint: 'Centre of the nearer femoral head (the larger circle).',
+    kind: 'femoral-head',
+  },
+  {
+    name: 'FH2',
+    label: 'Femoral head centre 2',
+    hint: 'Centre of the other femoral head; skip it when the heads superimpose.',
+    kind: 'femoral-head',
+  },
 ]
 
 function vertebraeOf(segment: MotionSegment): [upper: string, lower: string] {
@@ -95,7 +105,10 @@ function markerLandmark(segment: MotionSegment): LandmarkSpec {
 }
 
 /** Every landmark a template asks for, in the order the checklist offers them. */
-export function templateLandmarks(template: ReadingTemplate, options: TemplateOptions = {}): LandmarkSpec[] {
+export function templateLandmarks(
+  template: ReadingTemplate,
+  options: TemplateOptions = {},
+): LandmarkSpec[] {
   switch (template) {
     case 'slip-grade':
     case 'motion-pair':

@@ -66,7 +66,13 @@ export interface PatientInput {
 
 export type PatientPatch = Partial<PatientInput> & { version: number }
 
-export const PATIENT_SORT_FIELDS = ['familyName', 'recordNumber', 'birthDate', 'studyCode', 'updatedAt'] as const
+export const PATIENT_SORT_FIELDS = [
+  'familyName',
+  'recordNumber',
+  'birthDate',
+  'studyCode',
+  'updatedAt',
+] as const
 export type PatientSortField = (typeof PATIENT_SORT_FIELDS)[number]
 
 export interface PatientQuery {
@@ -199,5 +205,9 @@ export interface CalibrationInput {
 /** A DICOM header that does not match the visit's patient: the upload waits for confirmation. */
 export interface PatientMismatch {
   file: string
-  differences: Array<{ field: 'name' | 'id' | 'birthDate' | 'studyDate'; inFile: string; onRecord: string }>
+  differences: Array<{
+    field: 'name' | 'id' | 'birthDate' | 'studyDate'
+    inFile: string
+    onRecord: string
+  }>
 }

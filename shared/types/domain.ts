@@ -40,7 +40,12 @@ export const SPACING_SOURCES = [
 ] as const
 export type SpacingSource = (typeof SPACING_SOURCES)[number]
 
-export const READING_TEMPLATES = ['slip-grade', 'lumbar-alignment', 'construct-check', 'motion-pair'] as const
+export const READING_TEMPLATES = [
+  'slip-grade',
+  'lumbar-alignment',
+  'construct-check',
+  'motion-pair',
+] as const
 export type ReadingTemplate = (typeof READING_TEMPLATES)[number]
 
 export const READING_STATUSES = ['draft', 'submitted', 'signed'] as const

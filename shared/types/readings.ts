@@ -1,5 +1,10 @@
 import type { LandmarkDocument, PixelPoint } from './landmarks'
-import type { MeasurementResult, MotionPairResult, SubsidenceResult, UncertaintyResult } from './measurement'
+import type {
+  MeasurementResult,
+  MotionPairResult,
+  SubsidenceResult,
+  UncertaintyResult,
+} from './measurement'
 import type { ReadingStatus, ReadingTemplate, SpacingSource } from './domain'
 import type { TemplateOptions } from '../readings/templates'
 

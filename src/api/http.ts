@@ -34,7 +34,11 @@ async function request<T>(method: string, path: string, body?: unknown): Promise
       body: body === undefined ? undefined : JSON.stringify(body),
     })
   } catch {
-    throw new ApiError(0, 'offline', 'The server cannot be reached. Check the connection and try again.')
+    throw new ApiError(
+      0,
+      'offline',
+      'The server cannot be reached. Check the connection and try again.',
+    )
   }
   if (response.status === 204) return undefined as T
   const text = await response.text()

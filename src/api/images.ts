@@ -2,7 +2,8 @@ import type { ApiErrorBody, CalibrationInput, ImageRecord } from '@shared/types/
 import type { ImageView } from '@shared/types/domain'
 import { ApiError, http } from './http'
 
-export const listVisitImages = (visitId: number) => http.get<ImageRecord[]>(`/visits/${visitId}/images`)
+export const listVisitImages = (visitId: number) =>
+  http.get<ImageRecord[]>(`/visits/${visitId}/images`)
 export const getImage = (id: number) => http.get<ImageRecord>(`/images/${id}`)
 export const deleteImage = (id: number) => http.delete<void>(`/images/${id}`)
 export const calibrateImage = (id: number, input: CalibrationInput) =>
@@ -19,7 +20,11 @@ export interface FilmUpload {
  * Uploads one film with progress events. XMLHttpRequest rather than fetch: only it reports
  * upload progress in today's browsers.
  */
-export function uploadFilm(visitId: number, upload: FilmUpload, onProgress: (fraction: number) => void): { done: Promise<ImageRecord[]>; abort: () => void } {
+export function uploadFilm(
+  visitId: number,
+  upload: FilmUpload,
+  onProgress: (fraction: number) => void,
+): { done: Promise<ImageRecord[]>; abort: () => void } {
   const xhr = new XMLHttpRequest()
   const done = new Promise<ImageRecord[]>((resolve, reject) => {
     const form = new FormData()
@@ -31,7 +36,14 @@ export function uploadFilm(visitId: number, upload: FilmUpload, onProgress: (fra
     xhr.upload.onprogress = (event) => {
       if (event.lengthComputable) onProgress(event.loaded / event.total)
     }
-    xhr.onerror = () => reject(new ApiError(0, 'offline', 'The upload was interrupted. Check the connection and try again.'))
+    xhr.onerror = () =>
+      reject(
+        new ApiError(
+          0,
+          'offline',
+          'The upload was interrupted. Check the connection and try again.',
+        ),
+      )
     xhr.onabort = () => reject(new ApiError(0, 'aborted', 'Upload cancelled.'))
     xhr.onload = () => {
       let body: unknown
@@ -45,7 +57,14 @@ export function uploadFilm(visitId: number, upload: FilmUpload, onProgress: (fra
         return
       }
       const error = (body as ApiErrorBody | undefined)?.error
-      reject(new ApiError(xhr.status, error?.code ?? 'http_error', error?.message ?? `The server answered ${xhr.status}.`, error?.details))
+      reject(
+        new ApiError(
+          xhr.status,
+          error?.code ?? 'http_error',
+          error?.message ?? `The server answered ${xhr.status}.`,
+          error?.details,
+        ),
+      )
     }
     xhr.send(form)
   })

@@ -11,4 +11,3 @@ export const patchReading = (id: number, input: PatchReadingInput) =>
   http.patch<Reading>(`/readings/${id}`, input)
 export const submitReading = (id: number, version: number) =>
   http.post<Reading>(`/readings/${id}/submit`, { version })
-

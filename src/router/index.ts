@@ -1,16 +1,16 @@
-import { createRouter, createWebHistory, type RouteLocationRaw, type RouteRecordRaw } from 'vue-router'
+import {
+  createRouter,
+  createWebHistory,
+  type RouteLocationRaw,
+  type RouteRecordRaw,
+} from 'vue-router'
 import type { Permission } from '@shared/types/permissions'
 import { useSessionStore } from '@/stores/session'
 import SignInView from '@/views/SignInView.vue'
 
 /** Every route name; navigation goes by name so a typo does not compile. */
 export type RouteName =
-  | 'sign-in'
-  | 'patients'
-  | 'patient'
-  | 'reading-workspace'
-  | 'administration'
-  | 'not-found'
+  'sign-in' | 'patients' | 'patient' | 'reading-workspace' | 'administration' | 'not-found'
 
 declare module 'vue-router' {
   interface RouteMeta {
@@ -23,7 +23,12 @@ declare module 'vue-router' {
 }
 
 const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
-  { path: '/sign-in', name: 'sign-in', component: SignInView, meta: { public: true, title: 'Sign in' } },
+  {
+    path: '/sign-in',
+    name: 'sign-in',
+    component: SignInView,
+    meta: { public: true, title: 'Sign in' },
+  },
   { path: '/', redirect: () => ({ name: 'patients' }) },
   {
     path: '/patients',
@@ -51,7 +56,12 @@ const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
     component: () => import('@/views/AdministrationView.vue'),
     meta: { permission: 'user:manage', title: 'Administration' },
   },
-  { path: '/:pathMatch(.*)*', name: 'not-found', component: () => import('@/views/NotFoundView.vue'), meta: { public: true, title: 'Not found' } },
+  {
+    path: '/:pathMatch(.*)*',
+    name: 'not-found',
+    component: () => import('@/views/NotFoundView.vue'),
+    meta: { public: true, title: 'Not found' },
+  },
 ]
 
 export const router = createRouter({ history: createWebHistory(), routes })

@@ -39,7 +39,16 @@ export const useImagesStore = defineStore('images', () => {
   function queue(visitId: number, files: File[]): void {
     for (const file of files) {
       const isDicom = /\.dcm$/i.test(file.name) || file.type === 'application/dicom'
-      uploads.value.push({ key: nextKey++, visitId, file, view: isDicom ? '' : 'lateral-neutral', progress: 0, status: 'waiting', message: null, mismatches: [] })
+      uploads.value.push({
+        key: nextKey++,
+        visitId,
+        file,
+        view: isDicom ? '' : 'lateral-neutral',
+        progress: 0,
+        status: 'waiting',
+        message: null,
+        mismatches: [],
+      })
     }
   }
 
@@ -58,9 +67,13 @@ export const useImagesStore = defineStore('images', () => {
     upload.progress = 0
     upload.message = null
     try {
-      const { done } = uploadFilm(upload.visitId, { file: upload.file, view: upload.view, confirmPatientMismatch }, (fraction) => {
-        upload.progress = fraction
-      })
+      const { done } = uploadFilm(
+        upload.visitId,
+        { file: upload.file, view: upload.view, confirmPatientMismatch },
+        (fraction) => {
+          upload.progress = fraction
+        },
+      )
       await done
       upload.status = 'done'
       upload.progress = 1
@@ -90,5 +103,16 @@ export const useImagesStore = defineStore('images', () => {
     await loadForVisit(image.visitId)
   }
 
-  return { byVisit, uploads, errors, loadForVisit, queue, pendingFor, discard, send, sendAll, remove }
+  return {
+    byVisit,
+    uploads,
+    errors,
+    loadForVisit,
+    queue,
+    pendingFor,
+    discard,
+    send,
+    sendAll,
+    remove,
+  }
 })

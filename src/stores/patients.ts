@@ -1,6 +1,12 @@
 import { ref } from 'vue'
 import { defineStore } from 'pinia'
-import type { IdentifiedPatient, Patient, PatientInput, PatientPatch, PatientQuery } from '@shared/types/api'
+import type {
+  IdentifiedPatient,
+  Patient,
+  PatientInput,
+  PatientPatch,
+  PatientQuery,
+} from '@shared/types/api'
 import { createPatient, getPatient, listPatients, updatePatient } from '@/api/patients'
 
 export const usePatientsStore = defineStore('patients', () => {
@@ -25,7 +31,8 @@ export const usePatientsStore = defineStore('patients', () => {
       page.value = result.items
       total.value = result.total
     } catch (caught) {
-      if (requestId === latestRequest) error.value = caught instanceof Error ? caught.message : String(caught)
+      if (requestId === latestRequest)
+        error.value = caught instanceof Error ? caught.message : String(caught)
     } finally {
       if (requestId === latestRequest) loading.value = false
     }

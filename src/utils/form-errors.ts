@@ -7,7 +7,10 @@ import { ApiError } from '@/api/http'
 export function fieldErrorsFrom(error: unknown): Record<string, string> {
   if (!(error instanceof ApiError) || !error.details) return {}
   return Object.fromEntries(
-    Object.entries(error.details).map(([field, messages]) => [field, messages[0]?.replace(/^[^:]+: /, '') ?? '']),
+    Object.entries(error.details).map(([field, messages]) => [
+      field,
+      messages[0]?.replace(/^[^:]+: /, '') ?? '',
+    ]),
   )
 }
 

@@ -10,10 +10,17 @@ export function formatDate(isoDate: string | null): string {
 }
 
 export function formatDateTime(iso: string): string {
-  return new Intl.DateTimeFormat('en-GB', { dateStyle: 'medium', timeStyle: 'short' }).format(new Date(iso))
+  return new Intl.DateTimeFormat('en-GB', { dateStyle: 'medium', timeStyle: 'short' }).format(
+    new Date(iso),
+  )
 }
 
-export const SEX_LABELS: Record<Sex, string> = { female: 'Female', male: 'Male', other: 'Other', unknown: 'Not recorded' }
+export const SEX_LABELS: Record<Sex, string> = {
+  female: 'Female',
+  male: 'Male',
+  other: 'Other',
+  unknown: 'Not recorded',
+}
 
 export const VISIT_KIND_LABELS: Record<VisitKind, string> = {
   'pre-op': 'Pre-op',

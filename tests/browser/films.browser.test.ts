@@ -54,7 +54,10 @@ describe('Films on a visit in Chromium', () => {
     await page.getByLabel('View of flexion.png').click()
     await page.getByRole('option', { name: 'Lateral, flexion' }).click()
     await page.getByRole('option', { name: 'Lateral, flexion' }).waitFor({ state: 'hidden' })
-    await page.getByLabel('View of standing-lateral.dcm').getByText('From the DICOM header').waitFor()
+    await page
+      .getByLabel('View of standing-lateral.dcm')
+      .getByText('From the DICOM header')
+      .waitFor()
     await page.screenshot({ path: screenshotPath('films-queued'), fullPage: true })
     await page.getByRole('button', { name: 'Upload films' }).click()
 
@@ -63,7 +66,11 @@ describe('Films on a visit in Chromium', () => {
     await grid.getByText('Lateral, flexion').waitFor()
     await grid.getByText('Lateral, neutral').waitFor()
     await expect.poll(() => page.getByRole('list', { name: 'Films to upload' }).count()).toBe(0)
-    const loaded = await grid.locator('img').evaluateAll((images) => images.every((image) => (image as unknown as { naturalWidth: number }).naturalWidth > 0))
+    const loaded = await grid
+      .locator('img')
+      .evaluateAll((images) =>
+        images.every((image) => (image as unknown as { naturalWidth: number }).naturalWidth > 0),
+      )
     expect(loaded).toBe(true)
     await page.screenshot({ path: screenshotPath('films-uploaded'), fullPage: true })
 
@@ -84,14 +91,20 @@ describe('Films on a visit in Chromium', () => {
     const page = await browser.newPage()
     await signInAsFellow(page)
     await page.locator('.patients-table').getByText('Halvorsen, Ingrid').click()
-    await page.getByTestId('film-input').setInputFiles([{ name: 'wrong-patient.dcm', mimeType: 'application/dicom', buffer: dicom }])
+    await page
+      .getByTestId('film-input')
+      .setInputFiles([{ name: 'wrong-patient.dcm', mimeType: 'application/dicom', buffer: dicom }])
     await page.getByRole('button', { name: 'Upload films' }).click()
     await page.getByText(/does not match this visit's patient/).waitFor()
     await page.getByText(/name is "ELSEWHERE, NOBODY"/).waitFor()
     await page.screenshot({ path: screenshotPath('films-mismatch'), fullPage: true })
     const before = await db('images').count({ c: '*' })
     await page.getByRole('button', { name: 'Attach to this patient anyway' }).click()
-    await expect.poll(async () => Number(((await db('images').count({ c: '*' })) as Array<{ c: number }>)[0]!.c)).toBe(Number((before as Array<{ c: number }>)[0]!.c) + 1)
+    await expect
+      .poll(async () =>
+        Number(((await db('images').count({ c: '*' })) as Array<{ c: number }>)[0]!.c),
+      )
+      .toBe(Number((before as Array<{ c: number }>)[0]!.c) + 1)
     await page.close()
   })
 })

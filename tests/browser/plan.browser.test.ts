@@ -36,7 +36,13 @@ async function upload(visitId: number, film: Phantom): Promise<number> {
 }
 
 /** A reading at the phantom's exact landmarks, made by the demo fellow through the API. */
-async function read(imageId: number, film: Phantom, template: ReadingTemplate, options: TemplateOptions, submit: boolean) {
+async function read(
+  imageId: number,
+  film: Phantom,
+  template: ReadingTemplate,
+  options: TemplateOptions,
+  submit: boolean,
+) {
   const truth = film.film.landmarks.points as Record<string, PixelPoint>
   const names = templateLandmarks(template, options).map((spec) => spec.name)
   const points = Object.fromEntries(names.map((name) => [name, truth[name]]))
@@ -107,9 +113,17 @@ describe('The plan and trends on the Patient screen in Chromium', () => {
     await page.getByText('Flags are decision support, not a decision.').waitFor()
     const l34 = page.locator('[data-segment="L3-L4"]')
     // The demo plan's disc replacement at L3-L4: the measured slip check is answered from the reading.
-    await expect.poll(() => l34.locator('[data-check="slip-grade-ii-or-more"]').getAttribute('data-state')).toBe('clear')
-    await expect.poll(() => l34.locator('[data-check="dynamic-translation-over-5mm"]').getAttribute('data-state')).toBe('unknown')
-    await expect.poll(() => page.locator('[data-series] canvas').count(), { timeout: 10_000 }).toBeGreaterThanOrEqual(3)
+    await expect
+      .poll(() => l34.locator('[data-check="slip-grade-ii-or-more"]').getAttribute('data-state'))
+      .toBe('clear')
+    await expect
+      .poll(() =>
+        l34.locator('[data-check="dynamic-translation-over-5mm"]').getAttribute('data-state'),
+      )
+      .toBe('unknown')
+    await expect
+      .poll(() => page.locator('[data-series] canvas').count(), { timeout: 10_000 })
+      .toBeGreaterThanOrEqual(3)
     await page.screenshot({ path: screenshotPath('plan-surgeon'), fullPage: true })
 
     // Plan a disc replacement at the isthmic L5-S1 level: the recorded pars defects are flagged.
@@ -118,12 +132,20 @@ describe('The plan and trends on the Patient screen in Chromium', () => {
     await page.getByRole('option', { name: 'Disc replacement' }).click()
     await l5s1.getByRole('button', { name: 'Save plan at L5-S1' }).click()
     await page.getByText('Plan saved at L5-S1').waitFor()
-    await expect.poll(() => l5s1.locator('[data-check="pars-defect"]').getAttribute('data-state')).toBe('flagged')
-    const row = await db(TABLES.planSegments).where({ patient_id: hybridId, segment: 'L5-S1' }).first()
+    await expect
+      .poll(() => l5s1.locator('[data-check="pars-defect"]').getAttribute('data-state'))
+      .toBe('flagged')
+    const row = await db(TABLES.planSegments)
+      .where({ patient_id: hybridId, segment: 'L5-S1' })
+      .first()
     expect(row).toMatchObject({ treatment: 'disc-replacement', version: 2 })
     await page.screenshot({ path: screenshotPath('plan-flagged'), fullPage: true })
-    await page.getByRole('region', { name: 'Plan' }).screenshot({ path: screenshotPath('plan-table') })
-    await page.getByRole('region', { name: 'Trends across visits' }).screenshot({ path: screenshotPath('plan-trends') })
+    await page
+      .getByRole('region', { name: 'Plan' })
+      .screenshot({ path: screenshotPath('plan-table') })
+    await page
+      .getByRole('region', { name: 'Trends across visits' })
+      .screenshot({ path: screenshotPath('plan-trends') })
     await page.close()
   })
 
@@ -135,12 +157,18 @@ describe('The plan and trends on the Patient screen in Chromium', () => {
     const l44 = page.locator('[data-segment="L4-L5"]')
     await l44.waitFor()
     // Another surgeon's save lands after this page read the plan.
-    await db(TABLES.planSegments).where({ patient_id: hybridId, segment: 'L4-L5' }).update({ treatment: 'interbody-fusion', version: 9 })
+    await db(TABLES.planSegments)
+      .where({ patient_id: hybridId, segment: 'L4-L5' })
+      .update({ treatment: 'interbody-fusion', version: 9 })
     await l44.getByLabel('Facet joint degeneration at L4-L5').check()
     await l44.getByRole('button', { name: 'Save plan at L4-L5' }).click()
     await page.getByTestId('plan-conflict').waitFor()
-    await expect.poll(() => l44.getByLabel('Planned treatment at L4-L5').textContent()).toContain('Interbody fusion')
-    const row = await db(TABLES.planSegments).where({ patient_id: hybridId, segment: 'L4-L5' }).first()
+    await expect
+      .poll(() => l44.getByLabel('Planned treatment at L4-L5').textContent())
+      .toContain('Interbody fusion')
+    const row = await db(TABLES.planSegments)
+      .where({ patient_id: hybridId, segment: 'L4-L5' })
+      .first()
     expect(row).toMatchObject({ facet_degeneration: 0, version: 9 })
     await page.screenshot({ path: screenshotPath('plan-conflict') })
     await page.close()
@@ -157,7 +185,9 @@ describe('The plan and trends on the Patient screen in Chromium', () => {
     await expect.poll(() => page.locator('[data-segment]').count()).toBe(5)
     expect(await page.getByRole('button', { name: /^Save plan at/ }).count()).toBe(0)
     expect(await page.getByLabel('Pars defect, left at L5-S1').isDisabled()).toBe(true)
-    await page.getByRole('region', { name: 'Plan' }).screenshot({ path: screenshotPath('plan-fellow') })
+    await page
+      .getByRole('region', { name: 'Plan' })
+      .screenshot({ path: screenshotPath('plan-fellow') })
 
     const other = await db(TABLES.patients).where({ record_number: 'EPD-104211' }).first()
     await page.goto(`${server.url}/patients/${other.id}`)

@@ -20,12 +20,23 @@ describe('formatInterval', () => {
 })
 
 describe('validatePatientForm', () => {
-  const valid = { recordNumber: 'A-1', familyName: 'F', givenName: 'G', birthDate: '1970-01-01', sex: 'female' as const }
+  const valid = {
+    recordNumber: 'A-1',
+    familyName: 'F',
+    givenName: 'G',
+    birthDate: '1970-01-01',
+    sex: 'female' as const,
+  }
   it('accepts a complete patient', () => {
     expect(validatePatientForm(valid, '2026-12-01')).toEqual({})
   })
   it('names each missing or malformed field as the server would', () => {
-    expect(validatePatientForm({ ...valid, recordNumber: 'a b', familyName: '', birthDate: '2027-01-01' }, '2026-12-01')).toEqual({
+    expect(
+      validatePatientForm(
+        { ...valid, recordNumber: 'a b', familyName: '', birthDate: '2027-01-01' },
+        '2026-12-01',
+      ),
+    ).toEqual({
       recordNumber: 'may hold letters, digits, - / and . only',
       familyName: 'is required',
       birthDate: 'cannot be in the future',

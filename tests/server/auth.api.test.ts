@@ -28,9 +28,16 @@ describe('POST /api/auth/login', () => {
   it('signs in with the right password and sets an httpOnly SameSite=Strict session cookie', async () => {
     const { app, config } = buildTestApp(db)
     const user = await createTestUser(db, config, 'fellow')
-    const res = await request(app).post('/api/auth/login').send({ email: user.email, password: user.password })
+    const res = await request(app)
+      .post('/api/auth/login')
+      .send({ email: user.email, password: user.password })
     expect(res.status).toBe(200)
-    expect(res.body).toEqual({ id: user.id, email: user.email, displayName: 'Test fellow', role: 'fellow' })
+    expect(res.body).toEqual({
+      id: user.id,
+      email: user.email,
+      displayName: 'Test fellow',
+      role: 'fellow',
+    })
     const cookie = sessionCookieOf(res)
     expect(cookie).toMatch(/HttpOnly/i)
     expect(cookie).toMatch(/SameSite=Strict/i)
@@ -45,15 +52,21 @@ describe('POST /api/auth/login', () => {
   it('accepts the e-mail address in any letter case', async () => {
     const { app, config } = buildTestApp(db)
     const user = await createTestUser(db, config, 'surgeon')
-    const res = await request(app).post('/api/auth/login').send({ email: user.email.toUpperCase(), password: user.password })
+    const res = await request(app)
+      .post('/api/auth/login')
+      .send({ email: user.email.toUpperCase(), password: user.password })
     expect(res.status).toBe(200)
   })
 
   it('answers one generic message for a wrong password and for an unknown e-mail', async () => {
     const { app, config } = buildTestApp(db)
     const user = await createTestUser(db, config, 'fellow')
-    const wrongPassword = await request(app).post('/api/auth/login').send({ email: user.email, password: 'nope' })
-    const unknownEmail = await request(app).post('/api/auth/login').send({ email: 'nobody@test.example', password: 'nope' })
+    const wrongPassword = await request(app)
+      .post('/api/auth/login')
+      .send({ email: user.email, password: 'nope' })
+    const unknownEmail = await request(app)
+      .post('/api/auth/login')
+      .send({ email: 'nobody@test.example', password: 'nope' })
     for (const res of [wrongPassword, unknownEmail]) {
       expect(res.status).toBe(401)
       expect(res.body.error).toEqual({ code: 'login_failed', message: LOGIN_FAILED_MESSAGE })
@@ -67,12 +80,17 @@ describe('POST /api/auth/login', () => {
     const { app, config } = buildTestApp(db, { LOGIN_MAX_FAILURES: '3' })
     const user = await createTestUser(db, config, 'fellow')
     for (let i = 0; i < 3; i += 1) {
-      await request(app).post('/api/auth/login').send({ email: user.email, password: 'wrong' }).expect(401)
+      await request(app)
+        .post('/api/auth/login')
+        .send({ email: user.email, password: 'wrong' })
+        .expect(401)
     }
     const row = await db(TABLES.users).where({ id: user.id }).first()
     expect(row.failed_attempts).toBe(3)
     expect(new Date(row.locked_until).getTime()).toBeGreaterThan(Date.now())
-    const res = await request(app).post('/api/auth/login').send({ email: user.email, password: user.password })
+    const res = await request(app)
+      .post('/api/auth/login')
+      .send({ email: user.email, password: user.password })
     expect(res.status).toBe(401)
     expect(res.body.error.message).toBe(LOGIN_FAILED_MESSAGE)
     expect(await db(TABLES.auditEvents).where({ action: 'lockout' })).toHaveLength(1)
@@ -81,8 +99,14 @@ describe('POST /api/auth/login', () => {
   it('resets the failure count after a successful sign-in', async () => {
     const { app, config } = buildTestApp(db, { LOGIN_MAX_FAILURES: '3' })
     const user = await createTestUser(db, config, 'fellow')
-    await request(app).post('/api/auth/login').send({ email: user.email, password: 'wrong' }).expect(401)
-    await request(app).post('/api/auth/login').send({ email: user.email, password: user.password }).expect(200)
+    await request(app)
+      .post('/api/auth/login')
+      .send({ email: user.email, password: 'wrong' })
+      .expect(401)
+    await request(app)
+      .post('/api/auth/login')
+      .send({ email: user.email, password: user.password })
+      .expect(200)
     const row = await db(TABLES.users).where({ id: user.id }).first()
     expect(row.failed_attempts).toBe(0)
   })
@@ -91,7 +115,9 @@ describe('POST /api/auth/login', () => {
     const { app, config } = buildTestApp(db)
     const user = await createTestUser(db, config, 'fellow')
     await db(TABLES.users).where({ id: user.id }).update({ active: false })
-    const res = await request(app).post('/api/auth/login').send({ email: user.email, password: user.password })
+    const res = await request(app)
+      .post('/api/auth/login')
+      .send({ email: user.email, password: user.password })
     expect(res.status).toBe(401)
     expect(res.body.error.message).toBe(LOGIN_FAILED_MESSAGE)
   })
@@ -100,7 +126,9 @@ describe('POST /api/auth/login', () => {
     const { app } = buildTestApp(db, { LOGIN_RATE_LIMIT_PER_MINUTE: '3' })
     const statuses: number[] = []
     for (let i = 0; i < 5; i += 1) {
-      const res = await request(app).post('/api/auth/login').send({ email: 'x@test.example', password: 'y' })
+      const res = await request(app)
+        .post('/api/auth/login')
+        .send({ email: 'x@test.example', password: 'y' })
       statuses.push(res.status)
     }
     expect(statuses).toEqual([401, 401, 401, 429, 429])
@@ -117,7 +145,10 @@ describe('POST /api/auth/login', () => {
 
   it('answers 400 with a clear message for malformed JSON', async () => {
     const { app } = buildTestApp(db)
-    const res = await request(app).post('/api/auth/login').set('Content-Type', 'application/json').send('{"email":')
+    const res = await request(app)
+      .post('/api/auth/login')
+      .set('Content-Type', 'application/json')
+      .send('{"email":')
     expect(res.status).toBe(400)
     expect(res.body.error.code).toBe('malformed_json')
   })
@@ -127,7 +158,10 @@ describe('session tokens', () => {
   it('answers 401 to a token signed with another secret', async () => {
     const { app, config } = buildTestApp(db)
     const user = await createTestUser(db, config, 'surgeon')
-    const forged = jwt.sign({ role: 'surgeon' }, 'some-other-secret-of-enough-length', { subject: String(user.id), expiresIn: 600 })
+    const forged = jwt.sign({ role: 'surgeon' }, 'some-other-secret-of-enough-length', {
+      subject: String(user.id),
+      expiresIn: 600,
+    })
     const res = await request(app).get('/api/auth/me').set('Cookie', `${SESSION_COOKIE}=${forged}`)
     expect(res.status).toBe(401)
   })
@@ -137,15 +171,27 @@ describe('session tokens', () => {
     const user = await createTestUser(db, config, 'fellow')
     const token = user.cookie.split('=')[1]!
     const [header, , signature] = token.split('.')
-    const payload = Buffer.from(JSON.stringify({ sub: String(user.id), role: 'admin', exp: Math.floor(Date.now() / 1000) + 600 })).toString('base64url')
-    const res = await request(app).get('/api/auth/me').set('Cookie', `${SESSION_COOKIE}=${header}.${payload}.${signature}`)
+    const payload = Buffer.from(
+      JSON.stringify({
+        sub: String(user.id),
+        role: 'admin',
+        exp: Math.floor(Date.now() / 1000) + 600,
+      }),
+    ).toString('base64url')
+    const res = await request(app)
+      .get('/api/auth/me')
+      .set('Cookie', `${SESSION_COOKIE}=${header}.${payload}.${signature}`)
     expect(res.status).toBe(401)
   })
 
   it('answers 401 to an expired token', async () => {
     const { app, config } = buildTestApp(db)
     const user = await createTestUser(db, config, 'fellow')
-    const expired = jwt.sign({ role: 'fellow', exp: Math.floor(Date.now() / 1000) - 10 }, config.JWT_SECRET, { subject: String(user.id) })
+    const expired = jwt.sign(
+      { role: 'fellow', exp: Math.floor(Date.now() / 1000) - 10 },
+      config.JWT_SECRET,
+      { subject: String(user.id) },
+    )
     const res = await request(app).get('/api/auth/me').set('Cookie', `${SESSION_COOKIE}=${expired}`)
     expect(res.status).toBe(401)
     expect(res.body.error.message).toMatch(/expired or is invalid/)
@@ -154,8 +200,14 @@ describe('session tokens', () => {
   it('refuses an unsigned ("none" algorithm) token', async () => {
     const { app, config } = buildTestApp(db)
     const user = await createTestUser(db, config, 'fellow')
-    const unsigned = jwt.sign({ role: 'admin' }, '', { algorithm: 'none', subject: String(user.id), expiresIn: 600 })
-    const res = await request(app).get('/api/auth/me').set('Cookie', `${SESSION_COOKIE}=${unsigned}`)
+    const unsigned = jwt.sign({ role: 'admin' }, '', {
+      algorithm: 'none',
+      subject: String(user.id),
+      expiresIn: 600,
+    })
+    const res = await request(app)
+      .get('/api/auth/me')
+      .set('Cookie', `${SESSION_COOKIE}=${unsigned}`)
     expect(res.status).toBe(401)
   })
 
@@ -172,7 +224,16 @@ describe('session tokens', () => {
   it('renews a token past half its lifetime (sliding expiry)', async () => {
     const { app, config } = buildTestApp(db)
     const user = await createTestUser(db, config, 'fellow')
-    const old = jwt.sign({ role: 'fellow', sid: 'a1b2c3d4e5f60718293a4b5c6d7e8f90', iat: Math.floor(Date.now() / 1000) - 20 * 60, exp: Math.floor(Date.now() / 1000) + 10 * 60 }, config.JWT_SECRET, { subject: String(user.id) })
+    const old = jwt.sign(
+      {
+        role: 'fellow',
+        sid: 'a1b2c3d4e5f60718293a4b5c6d7e8f90',
+        iat: Math.floor(Date.now() / 1000) - 20 * 60,
+        exp: Math.floor(Date.now() / 1000) + 10 * 60,
+      },
+      config.JWT_SECRET,
+      { subject: String(user.id) },
+    )
     const res = await request(app).get('/api/auth/me').set('Cookie', `${SESSION_COOKIE}=${old}`)
     expect(res.status).toBe(200)
     expect(sessionCookieOf(res)).toBeDefined()
@@ -186,7 +247,9 @@ describe('session tokens', () => {
     const res = await request(app).post('/api/auth/logout').set('Cookie', user.cookie)
     expect(res.status).toBe(204)
     expect(sessionCookieOf(res)).toMatch(/Expires=Thu, 01 Jan 1970/)
-    expect(await db(TABLES.auditEvents).where({ action: 'logout', user_id: user.id })).toHaveLength(1)
+    expect(await db(TABLES.auditEvents).where({ action: 'logout', user_id: user.id })).toHaveLength(
+      1,
+    )
   })
 
   it('refuses the signed-out token even if a copy of it was kept', async () => {
@@ -197,7 +260,9 @@ describe('session tokens', () => {
     expect(res.status).toBe(401)
     expect(res.body.error.message).toMatch(/signed out/)
     // A new sign-in of the same user is a new session and works.
-    const login = await request(app).post('/api/auth/login').send({ email: user.email, password: user.password })
+    const login = await request(app)
+      .post('/api/auth/login')
+      .send({ email: user.email, password: user.password })
     const cookie = sessionCookieOf(login)!.split(';')[0]!
     expect((await request(app).get('/api/auth/me').set('Cookie', cookie)).status).toBe(200)
   })
@@ -205,14 +270,23 @@ describe('session tokens', () => {
   it('refuses a token without a session id', async () => {
     const { app, config } = buildTestApp(db)
     const user = await createTestUser(db, config, 'fellow')
-    const legacy = jwt.sign({ role: 'fellow' }, config.JWT_SECRET, { subject: String(user.id), expiresIn: 600 })
-    expect((await request(app).get('/api/auth/me').set('Cookie', `${SESSION_COOKIE}=${legacy}`)).status).toBe(401)
+    const legacy = jwt.sign({ role: 'fellow' }, config.JWT_SECRET, {
+      subject: String(user.id),
+      expiresIn: 600,
+    })
+    expect(
+      (await request(app).get('/api/auth/me').set('Cookie', `${SESSION_COOKIE}=${legacy}`)).status,
+    ).toBe(401)
   })
 
   it('refuses a cross-site write even with a valid session', async () => {
     const { app, config } = buildTestApp(db)
     const user = await createTestUser(db, config, 'surgeon')
-    const res = await request(app).post('/api/patients').set('Cookie', user.cookie).set('Sec-Fetch-Site', 'cross-site').send({})
+    const res = await request(app)
+      .post('/api/patients')
+      .set('Cookie', user.cookie)
+      .set('Sec-Fetch-Site', 'cross-site')
+      .send({})
     expect(res.status).toBe(403)
   })
 })
@@ -221,18 +295,33 @@ describe('lockout expiry', () => {
   it('counts failures from zero again once a lock has run out', async () => {
     const { app, config } = buildTestApp(db, { LOGIN_MAX_FAILURES: '3' })
     const user = await createTestUser(db, config, 'fellow')
-    await db(TABLES.users).where({ id: user.id }).update({ failed_attempts: 3, locked_until: new Date(Date.now() - 60_000) })
-    await request(app).post('/api/auth/login').send({ email: user.email, password: 'wrong' }).expect(401)
+    await db(TABLES.users)
+      .where({ id: user.id })
+      .update({ failed_attempts: 3, locked_until: new Date(Date.now() - 60_000) })
+    await request(app)
+      .post('/api/auth/login')
+      .send({ email: user.email, password: 'wrong' })
+      .expect(401)
     const row = await db(TABLES.users).where({ id: user.id }).first()
     expect(row.failed_attempts).toBe(1)
     expect(new Date(row.locked_until).getTime()).toBeLessThan(Date.now())
-    expect((await request(app).post('/api/auth/login').send({ email: user.email, password: user.password })).status).toBe(200)
+    expect(
+      (
+        await request(app)
+          .post('/api/auth/login')
+          .send({ email: user.email, password: user.password })
+      ).status,
+    ).toBe(200)
   })
 
   it('refuses a write marked as coming from a sibling site', async () => {
     const { app, config } = buildTestApp(db)
     const user = await createTestUser(db, config, 'surgeon')
-    const res = await request(app).post('/api/patients').set('Cookie', user.cookie).set('Sec-Fetch-Site', 'same-site').send({})
+    const res = await request(app)
+      .post('/api/patients')
+      .set('Cookie', user.cookie)
+      .set('Sec-Fetch-Site', 'same-site')
+      .send({})
     expect(res.status).toBe(403)
   })
 })

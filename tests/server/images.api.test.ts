@@ -24,12 +24,19 @@ let visitId: number
 let files: Awaited<ReturnType<typeof smallPhantomFiles>>
 let otherPatientFiles: Awaited<ReturnType<typeof smallPhantomFiles>>
 
-const PATIENT = { recordNumber: 'TST-IMG-1', familyName: 'Quillfeather', givenName: 'Odalys', birthDate: '1970-05-17' }
+const PATIENT = {
+  recordNumber: 'TST-IMG-1',
+  familyName: 'Quillfeather',
+  givenName: 'Odalys',
+  birthDate: '1970-05-17',
+}
 
 /** Every file left in the uploads folder, temporary ones included. */
 function filesOnDisk(): string[] {
   const walk = (dir: string): string[] =>
-    readdirSync(dir, { withFileTypes: true }).flatMap((entry) => (entry.isDirectory() ? walk(join(dir, entry.name)) : [join(dir, entry.name)]))
+    readdirSync(dir, { withFileTypes: true }).flatMap((entry) =>
+      entry.isDirectory() ? walk(join(dir, entry.name)) : [join(dir, entry.name)],
+    )
   return walk(uploadDir)
 }
 
@@ -37,15 +44,23 @@ beforeAll(async () => {
   db = await openTestDb()
   uploadDir = mkdtempSync(join(tmpdir(), 'endplate-uploads-'))
   ;({ app, config } = buildTestApp(db, { UPLOAD_DIR: uploadDir, UPLOAD_MAX_MB: '3' }))
-  files = await smallPhantomFiles({ patient: { name: 'QUILLFEATHER^ODALYS', id: 'TST-IMG-1', birthDate: '1970-05-17', sex: 'F' }, studyDate: '2026-03-02' })
-  otherPatientFiles = await smallPhantomFiles({ seed: 9, patient: { name: 'BRACKENRIDGE^TOMAS', id: 'OTHER-9', birthDate: '1955-01-01', sex: 'M' }, studyDate: '2026-03-02' })
+  files = await smallPhantomFiles({
+    patient: { name: 'QUILLFEATHER^ODALYS', id: 'TST-IMG-1', birthDate: '1970-05-17', sex: 'F' },
+    studyDate: '2026-03-02',
+  })
+  otherPatientFiles = await smallPhantomFiles({
+    seed: 9,
+    patient: { name: 'BRACKENRIDGE^TOMAS', id: 'OTHER-9', birthDate: '1955-01-01', sex: 'M' },
+    studyDate: '2026-03-02',
+  })
 })
 afterAll(async () => {
   await db.destroy()
 })
 beforeEach(async () => {
   await truncateAll(db)
-  for (const entry of readdirSync(uploadDir)) rmSync(join(uploadDir, entry), { recursive: true, force: true })
+  for (const entry of readdirSync(uploadDir))
+    rmSync(join(uploadDir, entry), { recursive: true, force: true })
   users = await createUsersForEveryRole(db, config)
   const patientId = await insertTestPatient(db, users.fellow.id, PATIENT)
   visitId = await insertTestVisit(db, patientId, users.fellow.id, '2026-03-02')
@@ -63,7 +78,13 @@ describe('POST /api/visits/:id/images', () => {
     const res = await upload(users.fellow, files.dicom, 'lateral.dcm')
     expect(res.status).toBe(201)
     const [image] = res.body
-    expect(image).toMatchObject({ visitId, width: 750, height: 625, fileKind: 'dicom', view: 'lateral-neutral' })
+    expect(image).toMatchObject({
+      visitId,
+      width: 750,
+      height: 625,
+      fileKind: 'dicom',
+      view: 'lateral-neutral',
+    })
     // The phantom writes Pixel Spacing = 0.6 mm detector pitch / 1.15 magnification with
     // Calibration Type GEOMETRY: calibrated in the patient, first in the order of trust
     // (DICOM PS3.3 §10.7.1.1).
@@ -73,12 +94,21 @@ describe('POST /api/visits/:id/images', () => {
     expect(image.dicom.patient.id).toBe('TST-IMG-1')
     expect(image.contentHash).toMatch(/^[0-9a-f]{64}$/)
 
-    for (const [name, maxSide] of [['display', 750], ['preview', 750], ['thumbnail', 256], ['full-depth', 750]] as const) {
-      const file = await request(app).get(`/api/images/${image.id}/files/${name}`).set('Cookie', users.surgeon.cookie).buffer(true).parse((response, done) => {
-        const chunks: Buffer[] = []
-        response.on('data', (chunk: Buffer) => chunks.push(chunk))
-        response.on('end', () => done(null, Buffer.concat(chunks)))
-      })
+    for (const [name, maxSide] of [
+      ['display', 750],
+      ['preview', 750],
+      ['thumbnail', 256],
+      ['full-depth', 750],
+    ] as const) {
+      const file = await request(app)
+        .get(`/api/images/${image.id}/files/${name}`)
+        .set('Cookie', users.surgeon.cookie)
+        .buffer(true)
+        .parse((response, done) => {
+          const chunks: Buffer[] = []
+          response.on('data', (chunk: Buffer) => chunks.push(chunk))
+          response.on('end', () => done(null, Buffer.concat(chunks)))
+        })
       expect(file.status).toBe(200)
       expect(file.headers['cache-control']).toBe('private, max-age=31536000, immutable')
       const meta = await sharp(file.body as Buffer).metadata()
@@ -87,9 +117,13 @@ describe('POST /api/visits/:id/images', () => {
       expect(meta.depth).toBe(name === 'full-depth' ? 'ushort' : 'uchar')
     }
     const stored = filesOnDisk()
-    expect(stored.some((path) => path.endsWith('original.dcm') && path.includes(image.contentHash))).toBe(true)
+    expect(
+      stored.some((path) => path.endsWith('original.dcm') && path.includes(image.contentHash)),
+    ).toBe(true)
     expect(stored.some((path) => path.startsWith(join(uploadDir, 'tmp')))).toBe(false)
-    expect(await db(TABLES.auditEvents).where({ entity: 'image', action: 'create' })).toHaveLength(1)
+    expect(await db(TABLES.auditEvents).where({ entity: 'image', action: 'create' })).toHaveLength(
+      1,
+    )
   })
 
   it('keeps the original bytes exactly, readable by an independent DICOM parser', async () => {
@@ -109,7 +143,9 @@ describe('POST /api/visits/:id/images', () => {
     expect(refused.body.error.details.mismatches[0]).toMatch(/name is "BRACKENRIDGE, TOMAS"/)
     expect(await db(TABLES.images).count({ c: '*' })).toEqual([{ c: 0 }])
     expect(filesOnDisk()).toEqual([])
-    const confirmed = await upload(users.fellow, otherPatientFiles.dicom, 'other.dcm', { confirmPatientMismatch: 'true' })
+    const confirmed = await upload(users.fellow, otherPatientFiles.dicom, 'other.dcm', {
+      confirmPatientMismatch: 'true',
+    })
     expect(confirmed.status).toBe(201)
     const event = await db(TABLES.auditEvents).where({ entity: 'image', action: 'create' }).first()
     expect(event.summary).toMatch(/patient mismatch confirmed/)
@@ -118,7 +154,14 @@ describe('POST /api/visits/:id/images', () => {
   it('files a PNG with the chosen view and no spacing', async () => {
     const res = await upload(users.surgeon, files.png, 'flexion.png', { view: 'lateral-flexion' })
     expect(res.status).toBe(201)
-    expect(res.body[0]).toMatchObject({ fileKind: 'png', view: 'lateral-flexion', mmPerPixel: null, spacingSource: 'none', dicom: null, bitsStored: 16 })
+    expect(res.body[0]).toMatchObject({
+      fileKind: 'png',
+      view: 'lateral-flexion',
+      mmPerPixel: null,
+      spacingSource: 'none',
+      dicom: null,
+      bitsStored: 16,
+    })
   })
 
   it('asks for the view of a plain image file', async () => {
@@ -136,19 +179,34 @@ describe('POST /api/visits/:id/images', () => {
   })
 
   it.each([
-    ['a text file named .dcm', Buffer.from('this is not a film at all, only words\n'.repeat(20)), 'fake.dcm', 415, /not a DICOM|not a film|file type|recogni/i],
+    [
+      'a text file named .dcm',
+      Buffer.from('this is not a film at all, only words\n'.repeat(20)),
+      'fake.dcm',
+      415,
+      /not a DICOM|not a film|file type|recogni/i,
+    ],
     ['an empty file', Buffer.alloc(0), 'empty.png', 422, /empty/i],
     ['a truncated PNG', () => files.png.subarray(0, 2000), 'cut.png', 422, /.+/],
-    ['a corrupted DICOM', () => Buffer.concat([files.dicom.subarray(0, 400), Buffer.alloc(200, 0xff)]), 'broken.dcm', 422, /.+/],
-  ] as const)('refuses %s with a clear 4xx, leaving no row and no file', async (_label, bytes, name, status, message) => {
-    const buffer = typeof bytes === 'function' ? bytes() : bytes
-    const res = await upload(users.fellow, buffer, name, { view: 'lateral-neutral' })
-    expect(res.status).toBe(status)
-    expect(res.body.error.message).toMatch(message)
-    expect(res.body.error.message).toContain(name)
-    expect(await db(TABLES.images).count({ c: '*' })).toEqual([{ c: 0 }])
-    expect(filesOnDisk()).toEqual([])
-  })
+    [
+      'a corrupted DICOM',
+      () => Buffer.concat([files.dicom.subarray(0, 400), Buffer.alloc(200, 0xff)]),
+      'broken.dcm',
+      422,
+      /.+/,
+    ],
+  ] as const)(
+    'refuses %s with a clear 4xx, leaving no row and no file',
+    async (_label, bytes, name, status, message) => {
+      const buffer = typeof bytes === 'function' ? bytes() : bytes
+      const res = await upload(users.fellow, buffer, name, { view: 'lateral-neutral' })
+      expect(res.status).toBe(status)
+      expect(res.body.error.message).toMatch(message)
+      expect(res.body.error.message).toContain(name)
+      expect(await db(TABLES.images).count({ c: '*' })).toEqual([{ c: 0 }])
+      expect(filesOnDisk()).toEqual([])
+    },
+  )
 
   it('refuses a file over the size limit with 413 and leaves nothing behind', async () => {
     const res = await upload(users.fellow, Buffer.alloc(4 * 1024 * 1024, 1), 'huge.dcm')
@@ -172,7 +230,11 @@ describe('POST /api/visits/:id/images', () => {
   })
 
   it('answers 404 for an unknown visit and removes the streamed file', async () => {
-    const res = await request(app).post('/api/visits/987654/images').set('Cookie', users.fellow.cookie).field('view', 'ap').attach('file', files.png, 'x.png')
+    const res = await request(app)
+      .post('/api/visits/987654/images')
+      .set('Cookie', users.fellow.cookie)
+      .field('view', 'ap')
+      .attach('file', files.png, 'x.png')
     expect(res.status).toBe(404)
     expect(filesOnDisk()).toEqual([])
   })
@@ -185,9 +247,11 @@ describe('POST /api/visits/:id/images', () => {
 })
 
 describe('reading and deleting films', () => {
-  it('lists a visit\'s films, hides header identity from researchers, and lets nobody outside fetch them', async () => {
+  it("lists a visit's films, hides header identity from researchers, and lets nobody outside fetch them", async () => {
     const [image] = (await upload(users.fellow, files.dicom, 'lateral.dcm')).body
-    const list = await request(app).get(`/api/visits/${visitId}/images`).set('Cookie', users.researcher.cookie)
+    const list = await request(app)
+      .get(`/api/visits/${visitId}/images`)
+      .set('Cookie', users.researcher.cookie)
     expect(list.status).toBe(200)
     expect(list.body).toHaveLength(1)
     const text = JSON.stringify(list.body)
@@ -199,63 +263,162 @@ describe('reading and deleting films', () => {
     expect(text).not.toContain(image.contentHash)
     expect(text).not.toMatch(/\d{4}-\d{2}-\d{2}/)
     // Clinicians get the header identity one film at a time, and that view is audited.
-    const clinicianList = await request(app).get(`/api/visits/${visitId}/images`).set('Cookie', users.surgeon.cookie)
+    const clinicianList = await request(app)
+      .get(`/api/visits/${visitId}/images`)
+      .set('Cookie', users.surgeon.cookie)
     expect(clinicianList.body[0].dicom.patient).toBeUndefined()
-    const one = await request(app).get(`/api/images/${image.id}`).set('Cookie', users.surgeon.cookie)
+    const one = await request(app)
+      .get(`/api/images/${image.id}`)
+      .set('Cookie', users.surgeon.cookie)
     expect(one.body.dicom.patient).toMatchObject({ id: 'TST-IMG-1', birthDate: '1970-05-17' })
-    expect(await db(TABLES.auditEvents).where({ entity: 'image', action: 'view', user_id: users.surgeon.id })).toHaveLength(1)
-    expect((await request(app).get(`/api/images/${image.id}/files/thumbnail`).set('Cookie', users.researcher.cookie)).status).toBe(200)
+    expect(
+      await db(TABLES.auditEvents).where({
+        entity: 'image',
+        action: 'view',
+        user_id: users.surgeon.id,
+      }),
+    ).toHaveLength(1)
+    expect(
+      (
+        await request(app)
+          .get(`/api/images/${image.id}/files/thumbnail`)
+          .set('Cookie', users.researcher.cookie)
+      ).status,
+    ).toBe(200)
 
     await db(TABLES.studyPatients).delete()
-    expect((await request(app).get(`/api/images/${image.id}`).set('Cookie', users.researcher.cookie)).status).toBe(404)
-    expect((await request(app).get(`/api/images/${image.id}/files/display`).set('Cookie', users.researcher.cookie)).status).toBe(404)
+    expect(
+      (await request(app).get(`/api/images/${image.id}`).set('Cookie', users.researcher.cookie))
+        .status,
+    ).toBe(404)
+    expect(
+      (
+        await request(app)
+          .get(`/api/images/${image.id}/files/display`)
+          .set('Cookie', users.researcher.cookie)
+      ).status,
+    ).toBe(404)
     expect((await request(app).get(`/api/images/${image.id}/files/display`)).status).toBe(401)
-    expect((await request(app).get(`/api/images/${image.id}/files/display`).set('Cookie', users.admin.cookie)).status).toBe(403)
+    expect(
+      (
+        await request(app)
+          .get(`/api/images/${image.id}/files/display`)
+          .set('Cookie', users.admin.cookie)
+      ).status,
+    ).toBe(403)
   })
 
   it('deletes a film without readings, with its files', async () => {
     const [image] = (await upload(users.fellow, files.dicom, 'lateral.dcm')).body
-    const res = await request(app).delete(`/api/images/${image.id}`).set('Cookie', users.fellow.cookie)
+    const res = await request(app)
+      .delete(`/api/images/${image.id}`)
+      .set('Cookie', users.fellow.cookie)
     expect(res.status).toBe(204)
     expect(await db(TABLES.images).count({ c: '*' })).toEqual([{ c: 0 }])
     expect(filesOnDisk()).toEqual([])
-    expect(await db(TABLES.auditEvents).where({ entity: 'image', action: 'delete' })).toHaveLength(1)
+    expect(await db(TABLES.auditEvents).where({ entity: 'image', action: 'delete' })).toHaveLength(
+      1,
+    )
   })
 })
 
 describe('PATCH /api/images/:id/calibration', () => {
   it('stores a manual calibration from a line over a 25 mm sphere by default', async () => {
-    const [image] = (await upload(users.fellow, files.png, 'film.png', { view: 'lateral-neutral' })).body
+    const [image] = (await upload(users.fellow, files.png, 'film.png', { view: 'lateral-neutral' }))
+      .body
     // A horizontal line of 200 px over a 25 mm object: 25 / 200 = 0.125 mm per pixel.
-    const res = await request(app).patch(`/api/images/${image.id}/calibration`).set('Cookie', users.fellow.cookie).send({ line: [[100, 100], [300, 100]], version: image.version })
+    const res = await request(app)
+      .patch(`/api/images/${image.id}/calibration`)
+      .set('Cookie', users.fellow.cookie)
+      .send({
+        line: [
+          [100, 100],
+          [300, 100],
+        ],
+        version: image.version,
+      })
     expect(res.status).toBe(200)
     expect(res.body.spacingSource).toBe('manual')
     expect(res.body.mmPerPixel[0]).toBeCloseTo(0.125, 12)
     expect(res.body.mmPerPixel[1]).toBeCloseTo(0.125, 12)
     expect(res.body.manualCalibration).toMatchObject({ lengthMm: 25, lengthPx: 200 })
-    const stale = await request(app).patch(`/api/images/${image.id}/calibration`).set('Cookie', users.surgeon.cookie).send({ line: [[0, 0], [100, 0]], lengthMm: 10, version: image.version })
+    const stale = await request(app)
+      .patch(`/api/images/${image.id}/calibration`)
+      .set('Cookie', users.surgeon.cookie)
+      .send({
+        line: [
+          [0, 0],
+          [100, 0],
+        ],
+        lengthMm: 10,
+        version: image.version,
+      })
     expect(stale.status).toBe(409)
   })
 
   it('keeps the pixel aspect of a film with non-square pixels', async () => {
     const [image] = (await upload(users.fellow, files.dicom, 'lateral.dcm')).body
-    await db(TABLES.images).where({ id: image.id }).update({ mm_per_pixel_row: 0.2, mm_per_pixel_column: 0.1 })
+    await db(TABLES.images)
+      .where({ id: image.id })
+      .update({ mm_per_pixel_row: 0.2, mm_per_pixel_column: 0.1 })
     // A vertical line of 100 px: with row spacing twice the column spacing, its length is
     // 100·row mm = 50 mm, so row = 0.5 and column = 0.25 mm per pixel.
-    const res = await request(app).patch(`/api/images/${image.id}/calibration`).set('Cookie', users.fellow.cookie).send({ line: [[10, 10], [10, 110]], lengthMm: 50, version: image.version })
+    const res = await request(app)
+      .patch(`/api/images/${image.id}/calibration`)
+      .set('Cookie', users.fellow.cookie)
+      .send({
+        line: [
+          [10, 10],
+          [10, 110],
+        ],
+        lengthMm: 50,
+        version: image.version,
+      })
     expect(res.status).toBe(200)
     expect(res.body.mmPerPixel[0]).toBeCloseTo(0.5, 12)
     expect(res.body.mmPerPixel[1]).toBeCloseTo(0.25, 12)
   })
 
   it.each([
-    [{ line: [[0, 0], [2, 0]], version: 1 }, /at least 5 pixels/],
-    [{ line: [[0, 0], [5000, 0]], version: 1 }, /outside/],
+    [
+      {
+        line: [
+          [0, 0],
+          [2, 0],
+        ],
+        version: 1,
+      },
+      /at least 5 pixels/,
+    ],
+    [
+      {
+        line: [
+          [0, 0],
+          [5000, 0],
+        ],
+        version: 1,
+      },
+      /outside/,
+    ],
     [{ line: [[0, 0]], version: 1 }, /line/],
-    [{ line: [[0, 0], [100, 0]], lengthMm: -3, version: 1 }, /lengthMm/],
+    [
+      {
+        line: [
+          [0, 0],
+          [100, 0],
+        ],
+        lengthMm: -3,
+        version: 1,
+      },
+      /lengthMm/,
+    ],
   ])('answers 400 for %j and keeps the spacing', async (body, message) => {
-    const [image] = (await upload(users.fellow, files.png, 'film.png', { view: 'lateral-neutral' })).body
-    const res = await request(app).patch(`/api/images/${image.id}/calibration`).set('Cookie', users.fellow.cookie).send(body)
+    const [image] = (await upload(users.fellow, files.png, 'film.png', { view: 'lateral-neutral' }))
+      .body
+    const res = await request(app)
+      .patch(`/api/images/${image.id}/calibration`)
+      .set('Cookie', users.fellow.cookie)
+      .send(body)
     expect(res.status).toBe(400)
     expect(res.body.error.message).toMatch(message)
     expect((await db(TABLES.images).where({ id: image.id }).first()).spacing_source).toBe('none')
@@ -279,7 +442,9 @@ describe('broken uploads and missing files', () => {
   it('answers 404 without cache headers when a rendition is missing from storage', async () => {
     const [image] = (await upload(users.fellow, files.png, 'film.png', { view: 'ap' })).body
     for (const path of filesOnDisk()) if (path.includes('thumbnail')) rmSync(path)
-    const res = await request(app).get(`/api/images/${image.id}/files/thumbnail`).set('Cookie', users.fellow.cookie)
+    const res = await request(app)
+      .get(`/api/images/${image.id}/files/thumbnail`)
+      .set('Cookie', users.fellow.cookie)
     expect(res.status).toBe(404)
     expect(res.headers['cache-control'] ?? 'none').not.toMatch(/immutable/)
   })

@@ -42,7 +42,10 @@ const example1 = {
 describe('POST /api/measurements/compute', () => {
   it('answers the engine JSON for any signed-in role', async () => {
     for (const role of ['admin', 'surgeon', 'fellow', 'researcher'] as const) {
-      const res = await request(app).post('/api/measurements/compute').set('Cookie', users[role].cookie).send(example1)
+      const res = await request(app)
+        .post('/api/measurements/compute')
+        .set('Cookie', users[role].cookie)
+        .send(example1)
       expect(res.status).toBe(200)
       const l5s1 = res.body.segments['L5-S1']
       expect(l5s1.slipPercent).toBeCloseTo((100 * 30) / 300, 9)
@@ -53,7 +56,10 @@ describe('POST /api/measurements/compute', () => {
   })
 
   it('adds 95 % intervals on request', async () => {
-    const res = await request(app).post('/api/measurements/compute?uncertainty=true&sigmaMm=1').set('Cookie', users.fellow.cookie).send(example1)
+    const res = await request(app)
+      .post('/api/measurements/compute?uncertainty=true&sigmaMm=1')
+      .set('Cookie', users.fellow.cookie)
+      .send(example1)
     expect(res.status).toBe(200)
     expect(res.body.uncertainty).toBeDefined()
     expect(JSON.stringify(res.body.uncertainty)).toMatch(/slipPercent/)
@@ -69,7 +75,10 @@ describe('POST /api/measurements/compute', () => {
     [{ mmPerPixel: -1, points: {} }, /mmPerPixel|spacing/i],
     [{ points: { ...example1.points, 'S1.as': [1000, 2000] } }, /S1|endplate|zero/i],
   ])('answers 400 with the engine message for %j', async (body, message) => {
-    const res = await request(app).post('/api/measurements/compute').set('Cookie', users.fellow.cookie).send(body)
+    const res = await request(app)
+      .post('/api/measurements/compute')
+      .set('Cookie', users.fellow.cookie)
+      .send(body)
     expect(res.status).toBe(400)
     expect(res.body.error.code).toBe('invalid_landmarks')
     expect(res.body.error.message).toMatch(message)

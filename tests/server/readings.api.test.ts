@@ -261,7 +261,12 @@ describe('GET /api/readings/:id and /api/images/:id/readings', () => {
     expect(one.body.id).toBe(first.id)
     // No timestamps for researchers: a reading made on the visit day would date the visit.
     for (const reading of [one.body, ...list.body]) {
-      expect(reading).toMatchObject({ createdAt: null, updatedAt: null, submittedAt: null, signedAt: null })
+      expect(reading).toMatchObject({
+        createdAt: null,
+        updatedAt: null,
+        submittedAt: null,
+        signedAt: null,
+      })
     }
     expect(JSON.stringify([one.body, list.body])).not.toMatch(/\d{4}-\d{2}-\d{2}T/)
 
@@ -540,34 +545,87 @@ describe('construct checks', () => {
   })
 
   it('does not measure a second rater on the same post-op film as subsidence', async () => {
-    const postOpImage = await uploadFilm(neutral, 'lateral-neutral', await visitOf('post-op', '2026-03-10'))
+    const postOpImage = await uploadFilm(
+      neutral,
+      'lateral-neutral',
+      await visitOf('post-op', '2026-03-10'),
+    )
     const construct = { construct: [{ segment: 'L4-L5', implant: 'cage' }] }
     const points = pick(neutral, L4_L5)
-    const first = (await post(users.fellow, postOpImage, { template: 'construct-check', options: construct, points })).body
+    const first = (
+      await post(users.fellow, postOpImage, {
+        template: 'construct-check',
+        options: construct,
+        points,
+      })
+    ).body
     expect((await submit(users.fellow, first.id, 1)).status).toBe(200)
     // The surgeon reads the same film again with the lower corner a little off: rater
     // disagreement, not subsidence, so no baseline applies on the same visit.
     const [x, y] = points['L4.pi'] as PixelPoint
-    const second = await post(users.surgeon, postOpImage, { template: 'construct-check', options: construct, points: { ...points, 'L4.pi': [x, y + 20] } })
+    const second = await post(users.surgeon, postOpImage, {
+      template: 'construct-check',
+      options: construct,
+      points: { ...points, 'L4.pi': [x, y + 20] },
+    })
     expect(second.status).toBe(201)
     expect(second.body.results.subsidence).toBeNull()
   })
 
-  it('takes each treated segment\'s baseline from the earliest reading that measured it', async () => {
-    const firstOp = await uploadFilm(neutral, 'lateral-neutral', await visitOf('post-op', '2026-03-10'))
-    const secondOp = await uploadFilm(neutral, 'lateral-neutral', await visitOf('post-op', '2026-06-10'))
-    const followUp = await uploadFilm(neutral, 'lateral-neutral', await visitOf('follow-up', '2026-09-10'))
-    const l3l4 = templateLandmarks('construct-check', { construct: [{ segment: 'L3-L4', implant: 'cage' }] }).map((spec) => spec.name)
-    const l3l4Points = Object.fromEntries(Object.entries(neutral.film.landmarks.points).filter(([name]) => l3l4.includes(name))) as Points
-    const early = (await post(users.fellow, firstOp, { template: 'construct-check', options: { construct: [{ segment: 'L4-L5', implant: 'cage' }] }, points: pick(neutral, L4_L5) })).body
+  it("takes each treated segment's baseline from the earliest reading that measured it", async () => {
+    const firstOp = await uploadFilm(
+      neutral,
+      'lateral-neutral',
+      await visitOf('post-op', '2026-03-10'),
+    )
+    const secondOp = await uploadFilm(
+      neutral,
+      'lateral-neutral',
+      await visitOf('post-op', '2026-06-10'),
+    )
+    const followUp = await uploadFilm(
+      neutral,
+      'lateral-neutral',
+      await visitOf('follow-up', '2026-09-10'),
+    )
+    const l3l4 = templateLandmarks('construct-check', {
+      construct: [{ segment: 'L3-L4', implant: 'cage' }],
+    }).map((spec) => spec.name)
+    const l3l4Points = Object.fromEntries(
+      Object.entries(neutral.film.landmarks.points).filter(([name]) => l3l4.includes(name)),
+    ) as Points
+    const early = (
+      await post(users.fellow, firstOp, {
+        template: 'construct-check',
+        options: { construct: [{ segment: 'L4-L5', implant: 'cage' }] },
+        points: pick(neutral, L4_L5),
+      })
+    ).body
     await submit(users.fellow, early.id, 1)
     // A later operation treats L3-L4: its first post-op reading is that segment's baseline.
-    const adjacent = (await post(users.fellow, secondOp, { template: 'construct-check', options: { construct: [{ segment: 'L3-L4', implant: 'cage' }] }, points: l3l4Points })).body
+    const adjacent = (
+      await post(users.fellow, secondOp, {
+        template: 'construct-check',
+        options: { construct: [{ segment: 'L3-L4', implant: 'cage' }] },
+        points: l3l4Points,
+      })
+    ).body
     await submit(users.fellow, adjacent.id, 1)
-    const both: TemplateOptions = { construct: [{ segment: 'L3-L4', implant: 'cage' }, { segment: 'L4-L5', implant: 'cage' }] }
+    const both: TemplateOptions = {
+      construct: [
+        { segment: 'L3-L4', implant: 'cage' },
+        { segment: 'L4-L5', implant: 'cage' },
+      ],
+    }
     const bothNames = templateLandmarks('construct-check', both).map((spec) => spec.name)
-    const bothPoints = Object.fromEntries(Object.entries(neutral.film.landmarks.points).filter(([name]) => bothNames.includes(name))) as Points
-    const res = await post(users.fellow, followUp, { template: 'construct-check', options: both, points: bothPoints })
+    const bothPoints = Object.fromEntries(
+      Object.entries(neutral.film.landmarks.points).filter(([name]) => bothNames.includes(name)),
+    ) as Points
+    const res = await post(users.fellow, followUp, {
+      template: 'construct-check',
+      options: both,
+      points: bothPoints,
+    })
     expect(res.status).toBe(201)
     expect(res.body.results.subsidence['L4-L5'].baselineReadingId).toBe(early.id)
     expect(res.body.results.subsidence['L3-L4'].baselineReadingId).toBe(adjacent.id)
@@ -575,8 +633,15 @@ describe('construct checks', () => {
   })
 
   it('refuses a construct check on a pre-op film', async () => {
-    const preOpImage = await uploadFilm(neutral, 'lateral-neutral', await visitOf('pre-op', '2026-02-10'))
-    const res = await post(users.fellow, preOpImage, { template: 'construct-check', options: { construct: [{ segment: 'L4-L5', implant: 'cage' }] } })
+    const preOpImage = await uploadFilm(
+      neutral,
+      'lateral-neutral',
+      await visitOf('pre-op', '2026-02-10'),
+    )
+    const res = await post(users.fellow, preOpImage, {
+      template: 'construct-check',
+      options: { construct: [{ segment: 'L4-L5', implant: 'cage' }] },
+    })
     expect(res.status).toBe(400)
     expect(res.body.error.message).toMatch(/pre-op visit/)
     expect(await readingCount()).toBe(0)

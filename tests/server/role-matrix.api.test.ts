@@ -34,43 +34,190 @@ interface Ids {
 let n = 0
 const newPatient = () => {
   n += 1
-  return { recordNumber: `MX-${n}`, familyName: 'Matrixson', givenName: 'Ivo', birthDate: '1980-01-01', sex: 'male' }
+  return {
+    recordNumber: `MX-${n}`,
+    familyName: 'Matrixson',
+    givenName: 'Ivo',
+    birthDate: '1980-01-01',
+    sex: 'male',
+  }
 }
 
 // Expected status for each role on every API route (product roles: admin manages users, audit and
 // settings only; surgeon and fellow work with identified patients; researcher sees de-identified data).
 const ROUTES: RouteCase[] = [
-  { method: 'get', path: () => '/api/health', expect: { anonymous: 200, admin: 200, surgeon: 200, fellow: 200, researcher: 200 } },
-  { method: 'get', path: () => '/api/auth/me', expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 200, researcher: 200 } },
-  { method: 'post', path: () => '/api/auth/logout', expect: { anonymous: 401, admin: 204, surgeon: 204, fellow: 204, researcher: 204 } },
-  { method: 'get', path: () => '/api/patients', expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 } },
-  { method: 'post', path: () => '/api/patients', body: () => newPatient(), expect: { anonymous: 401, admin: 403, surgeon: 201, fellow: 201, researcher: 403 } },
-  { method: 'get', path: (ids) => `/api/patients/${ids.patientId}`, expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 } },
-  { method: 'patch', path: (ids) => `/api/patients/${ids.patientId}`, body: () => ({ notes: 'matrix' }), expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 403 } },
-  { method: 'get', path: (ids) => `/api/patients/${ids.patientId}/visits`, expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 } },
-  { method: 'post', path: (ids) => `/api/patients/${ids.patientId}/visits`, body: () => ({ visitDate: '2026-01-05', visitKind: 'pre-op' }), expect: { anonymous: 401, admin: 403, surgeon: 201, fellow: 201, researcher: 403 } },
-  { method: 'get', path: (ids) => `/api/visits/${ids.visitId}`, expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 } },
-  { method: 'patch', path: (ids) => `/api/visits/${ids.visitId}`, body: () => ({ indication: 'matrix' }), expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 403 } },
+  {
+    method: 'get',
+    path: () => '/api/health',
+    expect: { anonymous: 200, admin: 200, surgeon: 200, fellow: 200, researcher: 200 },
+  },
+  {
+    method: 'get',
+    path: () => '/api/auth/me',
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 200, researcher: 200 },
+  },
+  {
+    method: 'post',
+    path: () => '/api/auth/logout',
+    expect: { anonymous: 401, admin: 204, surgeon: 204, fellow: 204, researcher: 204 },
+  },
+  {
+    method: 'get',
+    path: () => '/api/patients',
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 },
+  },
+  {
+    method: 'post',
+    path: () => '/api/patients',
+    body: () => newPatient(),
+    expect: { anonymous: 401, admin: 403, surgeon: 201, fellow: 201, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: (ids) => `/api/patients/${ids.patientId}`,
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 },
+  },
+  {
+    method: 'patch',
+    path: (ids) => `/api/patients/${ids.patientId}`,
+    body: () => ({ notes: 'matrix' }),
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: (ids) => `/api/patients/${ids.patientId}/visits`,
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 },
+  },
+  {
+    method: 'post',
+    path: (ids) => `/api/patients/${ids.patientId}/visits`,
+    body: () => ({ visitDate: '2026-01-05', visitKind: 'pre-op' }),
+    expect: { anonymous: 401, admin: 403, surgeon: 201, fellow: 201, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: (ids) => `/api/visits/${ids.visitId}`,
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 },
+  },
+  {
+    method: 'patch',
+    path: (ids) => `/api/visits/${ids.visitId}`,
+    body: () => ({ indication: 'matrix' }),
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 403 },
+  },
   // Readings: the fellow started the reading, so only the fellow may edit or submit it.
-  { method: 'post', path: (ids) => `/api/images/${ids.imageId}/readings`, body: () => ({ template: 'slip-grade', options: { segment: 'L5-S1' } }), expect: { anonymous: 401, admin: 403, surgeon: 201, fellow: 201, researcher: 403 } },
-  { method: 'get', path: (ids) => `/api/images/${ids.imageId}/readings`, expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 } },
-  { method: 'get', path: (ids) => `/api/readings/${ids.readingId}`, expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 } },
-  { method: 'patch', path: (ids) => `/api/readings/${ids.readingId}`, body: () => ({ points: { 'L5.as': [10, 10] } }), version: (ids) => ids.readingVersion(), expect: { anonymous: 401, admin: 403, surgeon: 403, fellow: 200, researcher: 403 } },
-  { method: 'post', path: (ids) => `/api/readings/${ids.readingId}/submit`, body: () => ({}), version: (ids) => ids.readingVersion(), expect: { anonymous: 401, admin: 403, surgeon: 403, fellow: 200, researcher: 403 } },
+  {
+    method: 'post',
+    path: (ids) => `/api/images/${ids.imageId}/readings`,
+    body: () => ({ template: 'slip-grade', options: { segment: 'L5-S1' } }),
+    expect: { anonymous: 401, admin: 403, surgeon: 201, fellow: 201, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: (ids) => `/api/images/${ids.imageId}/readings`,
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 },
+  },
+  {
+    method: 'get',
+    path: (ids) => `/api/readings/${ids.readingId}`,
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 },
+  },
+  {
+    method: 'patch',
+    path: (ids) => `/api/readings/${ids.readingId}`,
+    body: () => ({ points: { 'L5.as': [10, 10] } }),
+    version: (ids) => ids.readingVersion(),
+    expect: { anonymous: 401, admin: 403, surgeon: 403, fellow: 200, researcher: 403 },
+  },
+  {
+    method: 'post',
+    path: (ids) => `/api/readings/${ids.readingId}/submit`,
+    body: () => ({}),
+    version: (ids) => ids.readingVersion(),
+    expect: { anonymous: 401, admin: 403, surgeon: 403, fellow: 200, researcher: 403 },
+  },
   // Plan and trends: everyone who reads the patient; the plan is written by surgeons only.
-  { method: 'get', path: (ids) => `/api/patients/${ids.patientId}/plan`, expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 } },
-  { method: 'put', path: (ids) => `/api/patients/${ids.patientId}/plan/L4-L5`, body: () => ({ parsDefectLeft: false, parsDefectRight: false, facetDegeneration: false, dynamicInstability: false, treatment: 'disc-replacement', implantLordosisDeg: 6, implantHeightMm: 10, notes: null, version: null }), expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 403, researcher: 403 } },
-  { method: 'get', path: (ids) => `/api/patients/${ids.patientId}/trends`, expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 } },
+  {
+    method: 'get',
+    path: (ids) => `/api/patients/${ids.patientId}/plan`,
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 },
+  },
+  {
+    method: 'put',
+    path: (ids) => `/api/patients/${ids.patientId}/plan/L4-L5`,
+    body: () => ({
+      parsDefectLeft: false,
+      parsDefectRight: false,
+      facetDegeneration: false,
+      dynamicInstability: false,
+      treatment: 'disc-replacement',
+      implantLordosisDeg: 6,
+      implantHeightMm: 10,
+      notes: null,
+      version: null,
+    }),
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: (ids) => `/api/patients/${ids.patientId}/trends`,
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 },
+  },
   // Films: the fixture film has a reading, so deleting it is refused (409) even where allowed.
-  { method: 'get', path: (ids) => `/api/visits/${ids.visitId}/images`, expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 } },
-  { method: 'post', path: (ids) => `/api/visits/${ids.visitId}/images`, body: () => ({}), expect: { anonymous: 401, admin: 403, surgeon: 400, fellow: 400, researcher: 403 } },
-  { method: 'get', path: (ids) => `/api/images/${ids.imageId}`, expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 } },
-  { method: 'patch', path: (ids) => `/api/images/${ids.imageId}/calibration`, body: () => ({ line: [[0, 0], [100, 0]] }), version: (ids) => ids.imageVersion(), expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 403 } },
-  { method: 'delete', path: (ids) => `/api/images/${ids.imageId}`, expect: { anonymous: 401, admin: 403, surgeon: 409, fellow: 409, researcher: 403 } },
-  { method: 'post', path: () => '/api/measurements/compute', body: () => ({ points: {} }), expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 200, researcher: 200 } },
-  { method: 'get', path: () => '/api/users', expect: { anonymous: 401, admin: 200, surgeon: 403, fellow: 403, researcher: 403 } },
-  { method: 'get', path: () => '/api/audit-events', expect: { anonymous: 401, admin: 200, surgeon: 403, fellow: 403, researcher: 403 } },
-  { method: 'get', path: () => '/api/no-such-route', expect: { anonymous: 401, admin: 404, surgeon: 404, fellow: 404, researcher: 404 } },
+  {
+    method: 'get',
+    path: (ids) => `/api/visits/${ids.visitId}/images`,
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 },
+  },
+  {
+    method: 'post',
+    path: (ids) => `/api/visits/${ids.visitId}/images`,
+    body: () => ({}),
+    expect: { anonymous: 401, admin: 403, surgeon: 400, fellow: 400, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: (ids) => `/api/images/${ids.imageId}`,
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 },
+  },
+  {
+    method: 'patch',
+    path: (ids) => `/api/images/${ids.imageId}/calibration`,
+    body: () => ({
+      line: [
+        [0, 0],
+        [100, 0],
+      ],
+    }),
+    version: (ids) => ids.imageVersion(),
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 403 },
+  },
+  {
+    method: 'delete',
+    path: (ids) => `/api/images/${ids.imageId}`,
+    expect: { anonymous: 401, admin: 403, surgeon: 409, fellow: 409, researcher: 403 },
+  },
+  {
+    method: 'post',
+    path: () => '/api/measurements/compute',
+    body: () => ({ points: {} }),
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 200, researcher: 200 },
+  },
+  {
+    method: 'get',
+    path: () => '/api/users',
+    expect: { anonymous: 401, admin: 200, surgeon: 403, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: () => '/api/audit-events',
+    expect: { anonymous: 401, admin: 200, surgeon: 403, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: () => '/api/no-such-route',
+    expect: { anonymous: 401, admin: 404, surgeon: 404, fellow: 404, researcher: 404 },
+  },
 ]
 
 let db: Db
@@ -94,15 +241,36 @@ beforeEach(async () => {
   await insertStudyWith(db, users.researcher.id, [patientId])
   // A film row without files (the reading routes never open the image) and a draft by the fellow.
   const imageId = await insertImage(db, {
-    visitId, view: 'lateral-neutral', fileKind: 'png', contentHash: 'f'.repeat(64),
-    originalPath: 'films/ff/matrix/original.png', displayPath: 'films/ff/matrix/display.png', previewPath: 'films/ff/matrix/preview.png',
-    thumbnailPath: 'films/ff/matrix/thumbnail.png', fullDepthPath: 'films/ff/matrix/full-depth.png', originalName: 'matrix.png',
-    sizeBytes: 1, width: 100, height: 100, bitsStored: 8, mmPerPixelRow: null, mmPerPixelColumn: null, spacingSource: 'none',
-    spacingNote: null, windowCenter: null, windowWidth: null, acquiredAt: null, dicomAttributes: null, uploadedBy: users.fellow.id,
+    visitId,
+    view: 'lateral-neutral',
+    fileKind: 'png',
+    contentHash: 'f'.repeat(64),
+    originalPath: 'films/ff/matrix/original.png',
+    displayPath: 'films/ff/matrix/display.png',
+    previewPath: 'films/ff/matrix/preview.png',
+    thumbnailPath: 'films/ff/matrix/thumbnail.png',
+    fullDepthPath: 'films/ff/matrix/full-depth.png',
+    originalName: 'matrix.png',
+    sizeBytes: 1,
+    width: 100,
+    height: 100,
+    bitsStored: 8,
+    mmPerPixelRow: null,
+    mmPerPixelColumn: null,
+    spacingSource: 'none',
+    spacingNote: null,
+    windowCenter: null,
+    windowWidth: null,
+    acquiredAt: null,
+    dicomAttributes: null,
+    uploadedBy: users.fellow.id,
   })
-  const reading = await request(app).post(`/api/images/${imageId}/readings`).set('Cookie', users.fellow.cookie)
+  const reading = await request(app)
+    .post(`/api/images/${imageId}/readings`)
+    .set('Cookie', users.fellow.cookie)
     .send({ template: 'slip-grade', options: { segment: 'L5-S1' }, points: { 'S1.ps': [40, 60] } })
-  if (reading.status !== 201) throw new Error(`could not start the matrix reading: ${JSON.stringify(reading.body)}`)
+  if (reading.status !== 201)
+    throw new Error(`could not start the matrix reading: ${JSON.stringify(reading.body)}`)
   const readingId = reading.body.id as number
   ids = {
     patientId,
@@ -124,7 +292,12 @@ describe('role × route matrix', () => {
         let body = route.body?.(ids, n)
         if (route.version && body) body = { ...body, version: await route.version(ids) }
         else if (route.method === 'patch' && body) {
-          body = { ...body, version: route.path(ids).includes('/visits/') ? await ids.visitVersion() : await ids.patientVersion() }
+          body = {
+            ...body,
+            version: route.path(ids).includes('/visits/')
+              ? await ids.visitVersion()
+              : await ids.patientVersion(),
+          }
         }
         const call = request(app)[route.method](route.path(ids))
         if (who !== 'anonymous') call.set('Cookie', users[who].cookie)
@@ -135,9 +308,11 @@ describe('role × route matrix', () => {
     })
   }
 
-  it('hides a patient outside the researcher\'s studies as if it did not exist', async () => {
+  it("hides a patient outside the researcher's studies as if it did not exist", async () => {
     const otherPatient = await insertTestPatient(db, users.fellow.id)
-    const res = await request(app).get(`/api/patients/${otherPatient}`).set('Cookie', users.researcher.cookie)
+    const res = await request(app)
+      .get(`/api/patients/${otherPatient}`)
+      .set('Cookie', users.researcher.cookie)
     expect(res.status).toBe(404)
     const list = await request(app).get('/api/patients').set('Cookie', users.researcher.cookie)
     expect(list.body.items.map((p: { id: number }) => p.id)).toEqual([ids.patientId])

@@ -34,7 +34,9 @@ export async function launchBrowser(): Promise<BrowserContext> {
 export async function startAppServer(db: Db): Promise<{ url: string; close(): Promise<void> }> {
   const clientDir = join(projectRoot, 'dist')
   if (!existsSync(join(clientDir, 'index.html'))) {
-    throw new Error('The client is not built: run `npx vite build` (npm test does it) before the browser tests.')
+    throw new Error(
+      'The client is not built: run `npx vite build` (npm test does it) before the browser tests.',
+    )
   }
   const app = createApp({ db, config: testConfig(), logger: pino({ level: 'silent' }), clientDir })
   const server: Server = createServer(app)

@@ -10,7 +10,13 @@ let counter = 0
 export async function insertTestPatient(
   db: Db,
   createdBy: number,
-  overrides: Partial<{ recordNumber: string; familyName: string; givenName: string; birthDate: string; studyCode: string }> = {},
+  overrides: Partial<{
+    recordNumber: string
+    familyName: string
+    givenName: string
+    birthDate: string
+    studyCode: string
+  }> = {},
 ): Promise<number> {
   counter += 1
   return insertPatient(db, {
@@ -26,15 +32,36 @@ export async function insertTestPatient(
   })
 }
 
-export async function insertTestVisit(db: Db, patientId: number, createdBy: number, visitDate = '2026-03-02', kind: VisitKind = 'pre-op'): Promise<number> {
-  return insertVisit(db, { patientId, visitDate, kind, monthsSinceSurgery: null, indication: 'Invented indication text', createdBy })
+export async function insertTestVisit(
+  db: Db,
+  patientId: number,
+  createdBy: number,
+  visitDate = '2026-03-02',
+  kind: VisitKind = 'pre-op',
+): Promise<number> {
+  return insertVisit(db, {
+    patientId,
+    visitDate,
+    kind,
+    monthsSinceSurgery: null,
+    indication: 'Invented indication text',
+    createdBy,
+  })
 }
 
 /** Puts patients into a study that the researcher belongs to. */
-export async function insertStudyWith(db: Db, researcherId: number, patientIds: number[]): Promise<number> {
+export async function insertStudyWith(
+  db: Db,
+  researcherId: number,
+  patientIds: number[],
+): Promise<number> {
   counter += 1
-  const [studyId] = await db(TABLES.studies).insert({ name: `Test cohort ${counter}`, created_by: researcherId })
+  const [studyId] = await db(TABLES.studies).insert({
+    name: `Test cohort ${counter}`,
+    created_by: researcherId,
+  })
   await db(TABLES.studyMembers).insert({ study_id: studyId, user_id: researcherId })
-  for (const patientId of patientIds) await db(TABLES.studyPatients).insert({ study_id: studyId, patient_id: patientId })
+  for (const patientId of patientIds)
+    await db(TABLES.studyPatients).insert({ study_id: studyId, patient_id: patientId })
   return studyId as number
 }

@@ -19,10 +19,16 @@ export function testConfig(overrides: Record<string, string> = {}): AppConfig {
   })
 }
 
-export function buildTestApp(db: Db, overrides: Record<string, string> = {}): { app: Express; config: AppConfig } {
+export function buildTestApp(
+  db: Db,
+  overrides: Record<string, string> = {},
+): { app: Express; config: AppConfig } {
   const config = testConfig(overrides)
   // No built client in API tests: the app serves the API only.
-  return { app: createApp({ db, config, logger: pino({ level: 'silent' }), clientDir: '/nonexistent' }), config }
+  return {
+    app: createApp({ db, config, logger: pino({ level: 'silent' }), clientDir: '/nonexistent' }),
+    config,
+  }
 }
 
 export interface TestUser {
@@ -34,14 +40,30 @@ export interface TestUser {
 }
 
 // bcrypt at cost 4 keeps test set-up fast; the cost is read from the hash, so sign-in still works.
-export async function createTestUser(db: Db, config: AppConfig, role: Role, email = `${role}@test.example`): Promise<TestUser> {
+export async function createTestUser(
+  db: Db,
+  config: AppConfig,
+  role: Role,
+  email = `${role}@test.example`,
+): Promise<TestUser> {
   const password = `pw-${role}-correct`
-  const id = await insertUser(db, { email, displayName: `Test ${role}`, role, passwordHash: await bcrypt.hash(password, 4) })
-  const token = signSessionToken(id, role, { secret: config.JWT_SECRET, lifetimeMinutes: config.SESSION_MINUTES })
+  const id = await insertUser(db, {
+    email,
+    displayName: `Test ${role}`,
+    role,
+    passwordHash: await bcrypt.hash(password, 4),
+  })
+  const token = signSessionToken(id, role, {
+    secret: config.JWT_SECRET,
+    lifetimeMinutes: config.SESSION_MINUTES,
+  })
   return { id, email, password, role, cookie: `${SESSION_COOKIE}=${token}` }
 }
 
-export async function createUsersForEveryRole(db: Db, config: AppConfig): Promise<Record<Role, TestUser>> {
+export async function createUsersForEveryRole(
+  db: Db,
+  config: AppConfig,
+): Promise<Record<Role, TestUser>> {
   return {
     admin: await createTestUser(db, config, 'admin'),
     surgeon: await createTestUser(db, config, 'surgeon'),

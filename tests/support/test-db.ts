@@ -18,10 +18,17 @@ export async function openTestDb(): Promise<Db> {
   const name = workerDatabaseName()
   const admin = knexFactory({
     client: 'mysql2',
-    connection: { host: config.DB_HOST, port: config.DB_PORT, user: config.DB_USER, password: config.DB_PASSWORD },
+    connection: {
+      host: config.DB_HOST,
+      port: config.DB_PORT,
+      user: config.DB_USER,
+      password: config.DB_PASSWORD,
+    },
   })
   try {
-    await admin.raw(`CREATE DATABASE IF NOT EXISTS \`${name}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`)
+    await admin.raw(
+      `CREATE DATABASE IF NOT EXISTS \`${name}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`,
+    )
   } finally {
     await admin.destroy()
   }

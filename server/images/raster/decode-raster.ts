@@ -34,7 +34,8 @@ export async function decodeRaster(bytes: Uint8Array, type: RasterType): Promise
     )
   }
   // A PNG says its size up front: refuse an oversized one even before sharp opens it.
-  if (ihdr && ihdr.width * ihdr.height > MAX_FILM_PIXELS) throw tooManyPixels(ihdr.width, ihdr.height)
+  if (ihdr && ihdr.width * ihdr.height > MAX_FILM_PIXELS)
+    throw tooManyPixels(ihdr.width, ihdr.height)
   // failOn 'truncated' rejects cut-off files instead of padding them with grey.
   const open = () => sharp(bytes, { failOn: 'truncated' }).autoOrient()
   let metadata: Metadata

@@ -19,7 +19,9 @@ function pngClaiming(width: number, height: number): Uint8Array {
   ihdr[8] = 8 // bit depth
   ihdr[9] = 0 // greyscale
   const signature = Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a])
-  return new Uint8Array(Buffer.concat([signature, chunk('IHDR', ihdr), chunk('IEND', Buffer.alloc(0))]))
+  return new Uint8Array(
+    Buffer.concat([signature, chunk('IHDR', ihdr), chunk('IEND', Buffer.alloc(0))]),
+  )
 }
 
 describe('decodeFilm pixel limit', () => {
