@@ -7,19 +7,17 @@ import { existsSync, mkdtempSync, rmSync } from 'node:fs'
 import { createServer, type Server } from 'node:http'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
-import knexFactory from 'knex'
-import { chromium } from 'playwright-core'
 import { pino } from 'pino'
 import { createApp } from '../app'
 import { config, parseConfig } from '../config'
-import { createDb } from '../db/knex'
-import { TABLES_CHILDREN_FIRST } from '../db/tables'
 import { insertUser } from '../db/users'
 import { insertPatient } from '../db/patients'
 import { insertVisit } from '../db/visits'
 import { SESSION_COOKIE, signSessionToken } from '../auth/session-token'
 import { generatePhantom, phantomDicom } from '../phantom/generate-phantom'
 import { projectRoot } from '../project-root'
+import { launchHeadlessChromium } from '../cli/chromium'
+import { openMigratedDatabase, truncateAllTables } from '../cli/database-lifecycle'
 
 /** The page's globals these callbacks touch; the server's tsconfig has no DOM types. */
 interface BrowserGlobals {
@@ -39,27 +37,8 @@ function percentile(values: number[], fraction: number): number {
 }
 
 async function benchDatabase() {
-  const admin = knexFactory({
-    client: 'mysql2',
-    connection: {
-      host: config.DB_HOST,
-      port: config.DB_PORT,
-      user: config.DB_USER,
-      password: config.DB_PASSWORD,
-    },
-  })
-  try {
-    await admin.raw(
-      `CREATE DATABASE IF NOT EXISTS \`${BENCH_DATABASE}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`,
-    )
-  } finally {
-    await admin.destroy()
-  }
-  const db = createDb(BENCH_DATABASE)
-  await db.migrate.latest()
-  await db.raw('SET FOREIGN_KEY_CHECKS = 0')
-  for (const table of TABLES_CHILDREN_FIRST) await db.raw(`TRUNCATE TABLE \`${table}\``)
-  await db.raw('SET FOREIGN_KEY_CHECKS = 1')
+  const db = await openMigratedDatabase(config, BENCH_DATABASE)
+  await truncateAllTables(db)
   return db
 }
 
@@ -84,24 +63,7 @@ export async function run(): Promise<void> {
   const address = server.address()
   if (!address || typeof address === 'string') throw new Error('No port')
   const url = `http://127.0.0.1:${address.port}`
-  const browser = await chromium.launchPersistentContext(
-    mkdtempSync(join(tmpdir(), 'endplate-bench-profile-')),
-    {
-      executablePath: '/usr/bin/chromium',
-      headless: true,
-      viewport: { width: 1440, height: 900 },
-      args: [
-        '--headless',
-        '--no-sandbox',
-        '--disable-gpu',
-        '--disable-quic',
-        '--no-first-run',
-        '--disable-background-networking',
-        '--disable-component-update',
-        '--disable-sync',
-      ],
-    },
-  )
+  const browser = await launchHeadlessChromium()
   try {
     const userId = await insertUser(db, {
       email: 'bench.fellow@bench.example',

@@ -1,5 +1,7 @@
+import knexFactory from 'knex'
 import type { AppConfig } from '../config'
 import { createDb, type Db } from '../db/knex'
+import { TABLES_CHILDREN_FIRST } from '../db/tables'
 import { ensureDatabases, mariaDbPaths, startMariaDb, stopMariaDb } from './mariadb'
 
 export interface RunningDatabase {
@@ -42,5 +44,41 @@ export async function withDb<T>(database: string, work: (db: Db) => Promise<T>):
     return await work(db)
   } finally {
     await db.destroy()
+  }
+}
+
+/**
+ * Creates a database of the project's MariaDB when missing (utf8mb4_unicode_ci), migrates it
+ * and opens a pool on it: the scratch databases of tests and benchmarks.
+ */
+export async function openMigratedDatabase(config: AppConfig, name: string): Promise<Db> {
+  const admin = knexFactory({
+    client: 'mysql2',
+    connection: {
+      host: config.DB_HOST,
+      port: config.DB_PORT,
+      user: config.DB_USER,
+      password: config.DB_PASSWORD,
+    },
+  })
+  try {
+    await admin.raw(
+      `CREATE DATABASE IF NOT EXISTS \`${name}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`,
+    )
+  } finally {
+    await admin.destroy()
+  }
+  const db = createDb(name)
+  await db.migrate.latest()
+  return db
+}
+
+/** Empties every table, children first: a scratch database back to nothing. */
+export async function truncateAllTables(db: Db): Promise<void> {
+  await db.raw('SET FOREIGN_KEY_CHECKS = 0')
+  try {
+    for (const table of TABLES_CHILDREN_FIRST) await db.raw(`TRUNCATE TABLE \`${table}\``)
+  } finally {
+    await db.raw('SET FOREIGN_KEY_CHECKS = 1')
   }
 }

@@ -1,8 +1,8 @@
-import { existsSync, mkdirSync, mkdtempSync } from 'node:fs'
+import { existsSync, mkdirSync } from 'node:fs'
 import { createServer, type Server } from 'node:http'
-import { tmpdir } from 'node:os'
 import { join } from 'node:path'
-import { chromium, type BrowserContext } from 'playwright-core'
+import type { BrowserContext } from 'playwright-core'
+import { launchHeadlessChromium } from '../../server/cli/chromium'
 import { pino } from 'pino'
 import { createApp } from '../../server/app'
 import type { Db } from '../../server/db/knex'
@@ -12,22 +12,8 @@ import { testConfig } from './test-app'
 export const SCREENSHOT_DIR = join(projectRoot, 'tests', 'output')
 
 /** Debian's Chromium driven by playwright-core; no browser download ever happens. */
-export async function launchBrowser(): Promise<BrowserContext> {
-  return chromium.launchPersistentContext(mkdtempSync(join(tmpdir(), 'endplate-profile-')), {
-    executablePath: '/usr/bin/chromium',
-    headless: true,
-    viewport: { width: 1440, height: 900 },
-    args: [
-      '--headless',
-      '--no-sandbox',
-      '--disable-gpu',
-      '--disable-quic',
-      '--no-first-run',
-      '--disable-background-networking',
-      '--disable-component-update',
-      '--disable-sync',
-    ],
-  })
+export function launchBrowser(): Promise<BrowserContext> {
+  return launchHeadlessChromium()
 }
 
 /** Serves the built client and the API on a free port of 127.0.0.1. */
