@@ -17,8 +17,10 @@ export async function startServer(): Promise<{ close(): Promise<void>; url: stri
   return {
     url,
     async close() {
-      await new Promise<void>((resolveClose) => server.close(() => resolveClose()))
+      const closed = new Promise<void>((resolveClose) => server.close(() => resolveClose()))
+      // Idle keep-alive connections would otherwise hold close() open for seconds.
       server.closeAllConnections()
+      await closed
       await db.destroy()
     },
   }
@@ -32,6 +34,12 @@ if (import.meta.url === `file://${process.argv[1]}`) {
     await running.close()
     process.exit(0)
   }
-  process.once('SIGINT', stop)
-  process.once('SIGTERM', stop)
+  let stopping = false
+  const stopOnce = () => {
+    if (stopping) return
+    stopping = true
+    void stop()
+  }
+  process.on('SIGINT', stopOnce)
+  process.on('SIGTERM', stopOnce)
 }

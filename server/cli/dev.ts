@@ -19,10 +19,13 @@ const children = [
   spawn('npx', ['tsx', 'watch', 'server/index.ts'], { stdio: 'inherit' }),
   spawn('npx', ['vite'], { stdio: 'inherit' }),
 ]
+let stopping = false
 const stop = async () => {
+  if (stopping) return
+  stopping = true
   for (const child of children) child.kill('SIGTERM')
   await database.release()
   process.exit(0)
 }
-process.once('SIGINT', () => void stop())
-process.once('SIGTERM', () => void stop())
+process.on('SIGINT', () => void stop())
+process.on('SIGTERM', () => void stop())

@@ -14,17 +14,21 @@ const { printWelcome } = await import('./welcome')
 
 const database = await bringUpDatabase(config, [config.DB_NAME, config.DB_TEST_NAME])
 let stopping = false
-async function shutdown(code: number, server?: { close(): Promise<void> }): Promise<never> {
-  if (!stopping) {
-    stopping = true
-    console.log('\nStopping Endplate ...')
-    await server?.close().catch(() => undefined)
-    await database.release().catch((error: unknown) => console.error(error))
-  }
+let running: { close(): Promise<void>; url: string } | undefined
+/**
+ * Ctrl-C reaches npm, tsx and this process at once, so the signal can arrive twice: the first
+ * starts the shutdown, later ones are ignored until MariaDB has been stopped cleanly.
+ */
+async function shutdown(code: number): Promise<void> {
+  if (stopping) return
+  stopping = true
+  console.log('\nStopping Endplate ...')
+  await running?.close().catch(() => undefined)
+  await database.release().catch((error: unknown) => console.error(error))
   process.exit(code)
 }
-process.once('SIGINT', () => void shutdown(0))
-process.once('SIGTERM', () => void shutdown(0))
+process.on('SIGINT', () => void shutdown(0))
+process.on('SIGTERM', () => void shutdown(0))
 
 try {
   await withDb(config.DB_NAME, async (db) => {
@@ -34,12 +38,8 @@ try {
   console.log('Building the client ...')
   await run('npx', ['vite', 'build', '--logLevel', 'warn'])
   const { startServer } = await import('../index')
-  const server = await startServer()
-  process.removeAllListeners('SIGINT')
-  process.removeAllListeners('SIGTERM')
-  process.once('SIGINT', () => void shutdown(0, server))
-  process.once('SIGTERM', () => void shutdown(0, server))
-  printWelcome(server.url)
+  running = await startServer()
+  printWelcome(running.url)
 } catch (error) {
   console.error(error instanceof Error ? error.message : error)
   await shutdown(1)
