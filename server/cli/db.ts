@@ -3,7 +3,9 @@
  * db:reset drops every table of the development database, migrates and seeds the demo afresh.
  */
 import { ensureEnvFile } from './env-file'
+import { failClearly } from './fail-clearly'
 
+failClearly()
 ensureEnvFile()
 const { config } = await import('../config')
 const { bringUpDatabase, migrateLatest, withDb } = await import('./database-lifecycle')

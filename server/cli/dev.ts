@@ -4,7 +4,9 @@
  */
 import { spawn } from 'node:child_process'
 import { ensureEnvFile } from './env-file'
+import { failClearly } from './fail-clearly'
 
+failClearly()
 ensureEnvFile()
 const { config } = await import('../config')
 const { bringUpDatabase, migrateLatest, withDb } = await import('./database-lifecycle')

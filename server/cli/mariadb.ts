@@ -1,6 +1,7 @@
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs'
 import { join } from 'node:path'
 import { spawn } from 'node:child_process'
+import { createServer } from 'node:net'
 import { aptInstall, commandExists, run, succeeds } from './shell'
 
 const MARIADBD = '/usr/sbin/mariadbd'
@@ -68,6 +69,16 @@ async function waitUntilReady(paths: MariaDbPaths, timeoutMs: number): Promise<v
   throw new Error(`MariaDB did not become ready within ${timeoutMs} ms.\n${log}`)
 }
 
+/** Whether something already listens on 127.0.0.1:port (another database, an old run). */
+function isPortTaken(port: number): Promise<boolean> {
+  return new Promise((resolvePort) => {
+    const probe = createServer()
+    probe.once('error', () => resolvePort(true))
+    probe.once('listening', () => probe.close(() => resolvePort(false)))
+    probe.listen(port, '127.0.0.1')
+  })
+}
+
 /**
  * Starts the project's MariaDB bound to 127.0.0.1 on `port`, or reuses one already running from
  * an earlier start. Returns whether this call started it (and so should stop it).
@@ -75,6 +86,11 @@ async function waitUntilReady(paths: MariaDbPaths, timeoutMs: number): Promise<v
 export async function startMariaDb(paths: MariaDbPaths, port: number): Promise<boolean> {
   await ensureMariaDbInstalled()
   if (isMariaDbRunning(paths)) return false
+  if (await isPortTaken(port)) {
+    throw new Error(
+      `Port ${port} on 127.0.0.1 is already in use by another program, so the project's MariaDB cannot start. Stop that program or set DB_PORT in .env to a free port.`,
+    )
+  }
   await initialiseDataDir(paths)
   mkdirSync(paths.runDir, { recursive: true })
   rmSync(paths.socket, { force: true })

@@ -4,8 +4,10 @@
  * app and API from one Express process. Ctrl-C stops Express and the MariaDB it started.
  */
 import { ensureEnvFile } from './env-file'
+import { failClearly } from './fail-clearly'
 import { run } from './shell'
 
+failClearly()
 ensureEnvFile()
 const { config } = await import('../config')
 const { bringUpDatabase, migrateLatest, withDb } = await import('./database-lifecycle')

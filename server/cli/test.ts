@@ -5,8 +5,10 @@
  */
 import { existsSync } from 'node:fs'
 import { ensureEnvFile } from './env-file'
+import { failClearly } from './fail-clearly'
 import { aptInstall, run } from './shell'
 
+failClearly()
 ensureEnvFile()
 const { config } = await import('../config')
 const { bringUpDatabase } = await import('./database-lifecycle')
