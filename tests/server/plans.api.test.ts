@@ -9,7 +9,7 @@ import type { AppConfig } from '../../server/config'
 import { TABLES } from '../../server/db/tables'
 import type { PhantomParamsInput } from '../../server/phantom/phantom-params'
 import { SOURCES } from '../../shared/measurement/sources'
-import { templateLandmarks, type TemplateOptions } from '../../shared/readings/templates'
+import type { TemplateOptions } from '../../shared/readings/templates'
 import type { ReadingTemplate, Role } from '../../shared/types/domain'
 import type { PixelPoint } from '../../shared/types/landmarks'
 import type { PatientPlan, PlanSegment } from '../../shared/types/plans'
@@ -17,8 +17,8 @@ import { openTestDb, truncateAll } from '../support/test-db'
 import { buildTestApp, createUsersForEveryRole, type TestUser } from '../support/test-app'
 import { insertStudyWith, insertTestPatient, insertTestVisit } from '../support/fixtures'
 import { smallPhantomFiles } from '../support/phantom-files'
+import { readPhantomAt, uploadPhantomFilm } from '../support/api-films'
 
-type Points = Record<string, PixelPoint>
 type Phantom = Awaited<ReturnType<typeof smallPhantomFiles>>
 
 let db: Db
@@ -77,45 +77,6 @@ const segmentOf = (plan: PatientPlan, segment: string): PlanSegment =>
 const checkOf = (segment: PlanSegment, id: string) => segment.checks.find((c) => c.id === id)
 const planRows = async () =>
   Number(((await db(TABLES.planSegments).count({ n: '*' })) as [{ n: number }])[0].n)
-
-async function uploadFilm(film: Phantom): Promise<number> {
-  const res = await request(app)
-    .post(`/api/visits/${visitId}/images`)
-    .set('Cookie', users.fellow.cookie)
-    .field('view', 'lateral-neutral')
-    .field('confirmPatientMismatch', 'true')
-    .attach('file', film.dicom, 'neutral.dcm')
-  expect(res.status).toBe(201)
-  return res.body[0].id as number
-}
-
-/** A reading placed at the phantom's ground-truth landmarks; submitted unless asked not to. */
-async function readAt(
-  film: Phantom,
-  imageId: number,
-  template: ReadingTemplate,
-  options: TemplateOptions,
-  submit = true,
-): Promise<{ id: number; points: Points }> {
-  const truth = film.film.landmarks.points as Points
-  const names = templateLandmarks(template, options).map((spec) => spec.name)
-  const points = Object.fromEntries(
-    names.filter((name) => truth[name]).map((name) => [name, truth[name] as PixelPoint]),
-  )
-  const created = await request(app)
-    .post(`/api/images/${imageId}/readings`)
-    .set('Cookie', users.fellow.cookie)
-    .send({ template, options, points })
-  expect(created.status).toBe(201)
-  if (submit) {
-    const submitted = await request(app)
-      .post(`/api/readings/${created.body.id}/submit`)
-      .set('Cookie', users.fellow.cookie)
-      .send({ version: created.body.version })
-    expect(submitted.status).toBe(200)
-  }
-  return { id: created.body.id as number, points }
-}
 
 /** Angle in degrees between two endplate lines drawn posterior → anterior (unoriented, < 90°). */
 function lineAngleDeg(p1: PixelPoint, a1: PixelPoint, p2: PixelPoint, a2: PixelPoint): number {
@@ -459,3 +420,12 @@ describe('plan checks from real readings', () => {
     expect(plan.lordosis.isEstimate).toBe(true)
   })
 })
+
+const uploadFilm = (film: Phantom) => uploadPhantomFilm(app, users.fellow.cookie, visitId, film)
+const readAt = (
+  film: Phantom,
+  imageId: number,
+  template: ReadingTemplate,
+  options: TemplateOptions,
+  submit = true,
+) => readPhantomAt(app, users.fellow.cookie, film, imageId, template, options, submit)

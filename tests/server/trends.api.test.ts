@@ -8,7 +8,7 @@ import type { Db } from '../../server/db/knex'
 import type { AppConfig } from '../../server/config'
 import { TABLES } from '../../server/db/tables'
 import { insertVisit } from '../../server/db/visits'
-import { templateLandmarks, type TemplateOptions } from '../../shared/readings/templates'
+import type { TemplateOptions } from '../../shared/readings/templates'
 import type { ReadingTemplate, Role, VisitKind } from '../../shared/types/domain'
 import type { PixelPoint } from '../../shared/types/landmarks'
 import type { PatientTrends, TrendSeries } from '../../shared/types/plans'
@@ -16,6 +16,7 @@ import { openTestDb, truncateAll } from '../support/test-db'
 import { buildTestApp, createUsersForEveryRole, type TestUser } from '../support/test-app'
 import { insertStudyWith, insertTestPatient } from '../support/fixtures'
 import { smallPhantomFiles } from '../support/phantom-files'
+import { readPhantomAt, uploadPhantomFilm } from '../support/api-films'
 
 type Points = Record<string, PixelPoint>
 type Phantom = Awaited<ReturnType<typeof smallPhantomFiles>>
@@ -78,42 +79,6 @@ beforeEach(async () => {
   }
   await insertStudyWith(db, users.researcher.id, [patientId])
 })
-
-async function uploadFilm(film: Phantom, visitId: number): Promise<number> {
-  const res = await request(app)
-    .post(`/api/visits/${visitId}/images`)
-    .set('Cookie', users.fellow.cookie)
-    .field('view', 'lateral-neutral')
-    .field('confirmPatientMismatch', 'true')
-    .attach('file', film.dicom, 'neutral.dcm')
-  expect(res.status).toBe(201)
-  return res.body[0].id as number
-}
-
-async function readAt(
-  film: Phantom,
-  imageId: number,
-  template: ReadingTemplate,
-  options: TemplateOptions,
-  submit: boolean,
-): Promise<{ id: number; points: Points }> {
-  const truth = film.film.landmarks.points as Points
-  const names = templateLandmarks(template, options).map((spec) => spec.name)
-  const points = Object.fromEntries(names.map((name) => [name, truth[name] as PixelPoint]))
-  const created = await request(app)
-    .post(`/api/images/${imageId}/readings`)
-    .set('Cookie', users.fellow.cookie)
-    .send({ template, options, points })
-  expect(created.status).toBe(201)
-  if (submit) {
-    const res = await request(app)
-      .post(`/api/readings/${created.body.id}/submit`)
-      .set('Cookie', users.fellow.cookie)
-      .send({ version: created.body.version })
-    expect(res.status).toBe(200)
-  }
-  return { id: created.body.id as number, points }
-}
 
 const getTrends = (who: TestUser = users.surgeon) =>
   request(app).get(`/api/patients/${patientId}/trends`).set('Cookie', who.cookie)
@@ -221,3 +186,13 @@ describe('GET /api/patients/:id/trends', () => {
     expect(res.status).toBe(404)
   })
 })
+
+const uploadFilm = (film: Phantom, visitId: number) =>
+  uploadPhantomFilm(app, users.fellow.cookie, visitId, film)
+const readAt = (
+  film: Phantom,
+  imageId: number,
+  template: ReadingTemplate,
+  options: TemplateOptions,
+  submit: boolean,
+) => readPhantomAt(app, users.fellow.cookie, film, imageId, template, options, submit)
