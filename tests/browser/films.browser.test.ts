@@ -3,7 +3,12 @@ import type { BrowserContext, Page } from 'playwright-core'
 import type { Db } from '../../server/db/knex'
 import { DEMO_USERS } from '../../server/demo/demo-data'
 import { openTestDb, truncateAll } from '../support/test-db'
-import { launchBrowser, screenshotPath, startAppServer } from '../support/browser'
+import {
+  launchBrowser,
+  screenshotPath,
+  signInThroughForm,
+  startAppServer,
+} from '../support/browser'
 import { smallPhantomFiles } from '../support/phantom-files'
 
 let db: Db
@@ -25,12 +30,12 @@ afterAll(async () => {
 })
 
 async function signInAsFellow(page: Page) {
-  const fellow = DEMO_USERS.find((user) => user.role === 'fellow')!
-  await browser.clearCookies()
-  await page.goto(`${server.url}/sign-in`)
-  await page.getByLabel('E-mail').fill(fellow.email)
-  await page.locator('#password').fill(fellow.password)
-  await page.getByRole('button', { name: 'Sign in' }).click()
+  await signInThroughForm(
+    browser,
+    page,
+    server.url,
+    DEMO_USERS.find((user) => user.role === 'fellow')!,
+  )
   await page.getByRole('heading', { name: 'Patients' }).waitFor()
 }
 
@@ -105,6 +110,25 @@ describe('Films on a visit in Chromium', () => {
         Number(((await db('images').count({ c: '*' })) as Array<{ c: number }>)[0]!.c),
       )
       .toBe(Number((before as Array<{ c: number }>)[0]!.c) + 1)
+    await page.close()
+  })
+
+  it('starts a slip-grade reading from a film card and opens it in the workspace', async () => {
+    const page = await browser.newPage()
+    await signInAsFellow(page)
+    await page.locator('.patients-table').getByText('Halvorsen, Ingrid').click()
+    const grid = page.getByRole('list', { name: 'Films of this visit' })
+    await grid.getByRole('button', { name: 'Read' }).first().click()
+    const dialog = page.getByRole('dialog', { name: 'Start a reading' })
+    await dialog.getByText('7 landmarks to place.').waitFor()
+    await dialog.getByRole('button', { name: 'Open workspace' }).click()
+    await expect.poll(() => page.url()).toMatch(/\/readings\/\d+$/)
+    await page.getByText('Slip grade L5-S1').first().waitFor()
+    await page.getByText('L5 anterior-superior').first().waitFor()
+    const readingId = Number(page.url().split('/').pop())
+    const stored = await db('readings').where({ id: readingId }).first()
+    expect(stored).toMatchObject({ template: 'slip-grade', segment: 'L5-S1', status: 'draft' })
+    await page.screenshot({ path: screenshotPath('films-start-reading') })
     await page.close()
   })
 })

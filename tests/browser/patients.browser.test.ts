@@ -3,7 +3,12 @@ import type { BrowserContext, Page } from 'playwright-core'
 import type { Db } from '../../server/db/knex'
 import { DEMO_USERS } from '../../server/demo/demo-data'
 import { openTestDb, truncateAll } from '../support/test-db'
-import { launchBrowser, screenshotPath, startAppServer } from '../support/browser'
+import {
+  launchBrowser,
+  screenshotPath,
+  signInThroughForm,
+  startAppServer,
+} from '../support/browser'
 
 let db: Db
 let browser: BrowserContext
@@ -24,13 +29,12 @@ afterAll(async () => {
 })
 
 async function signIn(page: Page, role: 'fellow' | 'researcher' | 'admin') {
-  const user = DEMO_USERS.find((candidate) => candidate.role === role)!
-  // One persistent profile serves every test: start each from a signed-out state.
-  await browser.clearCookies()
-  await page.goto(`${server.url}/sign-in`)
-  await page.getByLabel('E-mail').fill(user.email)
-  await page.locator('#password').fill(user.password)
-  await page.getByRole('button', { name: 'Sign in' }).click()
+  await signInThroughForm(
+    browser,
+    page,
+    server.url,
+    DEMO_USERS.find((candidate) => candidate.role === role)!,
+  )
 }
 
 describe('Patients screen in Chromium', () => {

@@ -10,7 +10,12 @@ import type { ReadingTemplate } from '../../shared/types/domain'
 import type { PixelPoint } from '../../shared/types/landmarks'
 import { openTestDb, truncateAll } from '../support/test-db'
 import { testConfig } from '../support/test-app'
-import { launchBrowser, screenshotPath, startAppServer } from '../support/browser'
+import {
+  launchBrowser,
+  screenshotPath,
+  signInThroughForm,
+  startAppServer,
+} from '../support/browser'
 import { smallPhantomFiles } from '../support/phantom-files'
 
 type Phantom = Awaited<ReturnType<typeof smallPhantomFiles>>
@@ -90,11 +95,7 @@ afterAll(async () => {
 })
 
 async function signInAsSurgeon(page: Page) {
-  await browser.clearCookies()
-  await page.goto(`${server.url}/sign-in`)
-  await page.getByLabel('E-mail').fill(surgeon.email)
-  await page.locator('#password').fill(surgeon.password)
-  await page.getByRole('button', { name: 'Sign in' }).click()
+  await signInThroughForm(browser, page, server.url, surgeon)
   await page.getByRole('heading', { name: 'Patients' }).waitFor()
 }
 

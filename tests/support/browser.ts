@@ -1,7 +1,7 @@
 import { existsSync, mkdirSync } from 'node:fs'
 import { createServer, type Server } from 'node:http'
 import { join } from 'node:path'
-import type { BrowserContext } from 'playwright-core'
+import type { BrowserContext, Page } from 'playwright-core'
 import { launchHeadlessChromium } from '../../server/cli/chromium'
 import { pino } from 'pino'
 import { createApp } from '../../server/app'
@@ -41,4 +41,21 @@ export async function startAppServer(db: Db): Promise<{ url: string; close(): Pr
 export function screenshotPath(name: string): string {
   mkdirSync(SCREENSHOT_DIR, { recursive: true })
   return join(SCREENSHOT_DIR, `${name}.png`)
+}
+
+/**
+ * Signs in through the sign-in screen, from a signed-out state (one persistent profile serves
+ * every test of a file, so cookies are cleared first).
+ */
+export async function signInThroughForm(
+  browser: BrowserContext,
+  page: Page,
+  baseUrl: string,
+  user: { email: string; password: string },
+): Promise<void> {
+  await browser.clearCookies()
+  await page.goto(`${baseUrl}/sign-in`)
+  await page.getByLabel('E-mail').fill(user.email)
+  await page.locator('#password').fill(user.password)
+  await page.getByRole('button', { name: 'Sign in' }).click()
 }

@@ -46,11 +46,17 @@ export interface ResultRow {
   emphasis?: boolean
 }
 
+const ROM_DEFINITION =
+  '|segmental lordosis on extension − on flexion|, the same endplates on both films'
+const TRANSLATION_DEFINITION =
+  '|slip on flexion − slip on extension| along the lower endplate (Taillard distance)'
+
 export interface ResultFlag {
   id: string
   tone: 'warn' | 'info'
   text: string
-  source: string
+  /** Where the rule comes from; a plain hint has none. */
+  source?: string
 }
 
 export interface ResultSection {
@@ -169,7 +175,8 @@ function gradeRows(
       id: `${segmentName}-borderline`,
       tone: 'warn',
       text: `Borderline grade: ${neighbours.join(', ')} within placement error. Check the corners at ${segmentName}.`,
-      source: 'reference §8: neighbouring grade ≥ 10 % probability',
+      source:
+        'Borderline when a neighbouring grade has at least 10 % probability under landmark placement error',
     })
   }
   if (segment.highGrade) {
@@ -226,7 +233,6 @@ export function segmentSection(
           id: `${segmentName}-missing`,
           tone: 'info',
           text: `Place the corners of ${segmentName} to see its measures.`,
-          source: 'template',
         },
       ],
     }
@@ -447,19 +453,27 @@ function motionSection(
 ): ResultSection {
   const calibration = SPACING_SOURCE_SHORT[spacingSource]
   const rows = [
-    row('rom', 'Angular range of motion', motion?.rangeOfMotionDeg, null, '°', 'reference §6', {
+    row('rom', 'Angular range of motion', motion?.rangeOfMotionDeg, null, '°', ROM_DEFINITION, {
       emphasis: true,
     }),
-    row('translation-mm', 'Translation', motion?.translationMm, null, 'mm', 'reference §6', {
-      calibration,
-    }),
+    row(
+      'translation-mm',
+      'Translation',
+      motion?.translationMm,
+      null,
+      'mm',
+      TRANSLATION_DEFINITION,
+      {
+        calibration,
+      },
+    ),
     row(
       'translation-percent',
       'Translation (of endplate depth)',
       motion?.translationPercent,
       null,
       '%',
-      'reference §6',
+      TRANSLATION_DEFINITION,
     ),
   ]
   const flags: ResultFlag[] = (motion?.criteria ?? []).map((criterion) => {
