@@ -12,7 +12,7 @@ import { authenticate } from './middleware/authenticate'
 import { errorHandler } from './middleware/error-handler'
 import { notFoundHandler } from './middleware/not-found'
 import { sameOriginWrites } from './middleware/same-origin'
-import { authRouter } from './routes/auth'
+import { accountRequestLimiter, authRouter } from './routes/auth'
 import { healthRouter } from './routes/health'
 import { patientsRouter } from './routes/patients'
 import { visitsRouter } from './routes/visits'
@@ -22,6 +22,10 @@ import { measurementsRouter } from './routes/measurements'
 import { imagesRouter } from './routes/images'
 import { readingsRouter } from './routes/readings'
 import { plansRouter } from './routes/plans'
+import { invitationsRouter } from './routes/invitations'
+import { settingsRouter } from './routes/settings'
+import { mailRouter } from './routes/mail'
+import { systemClock, type Clock } from './clock'
 import { createLocalFileStore } from './storage/local-file-store'
 import type { FileStore } from './storage/file-store'
 import { projectRoot } from './project-root'
@@ -34,6 +38,8 @@ export interface AppDependencies {
   clientDir?: string
   /** Where films live; the local uploads folder unless a test or deployment passes another. */
   store?: FileStore
+  /** The current time for link expiry; tests pass a clock they can move. */
+  now?: Clock
 }
 
 export function createApp({
@@ -42,6 +48,7 @@ export function createApp({
   logger,
   clientDir = join(projectRoot, 'dist'),
   store = createLocalFileStore(config.uploadDirAbsolute),
+  now = systemClock,
 }: AppDependencies): Express {
   const app = express()
   app.disable('x-powered-by')
@@ -89,10 +96,21 @@ export function createApp({
     '/auth',
     authRouter({
       db,
+      now,
       session,
       authenticate: requireSession,
       maxFailures: config.LOGIN_MAX_FAILURES,
       loginsPerMinute: config.LOGIN_RATE_LIMIT_PER_MINUTE,
+    }),
+  )
+  api.use(
+    '/invitations',
+    invitationsRouter({
+      db,
+      now,
+      session,
+      authenticate: requireSession,
+      linkLimiter: accountRequestLimiter(config.LOGIN_RATE_LIMIT_PER_MINUTE, 'invitation requests'),
     }),
   )
   api.use(requireSession)
@@ -111,6 +129,8 @@ export function createApp({
   api.use('/users', usersRouter(db))
   api.use('/audit-events', auditEventsRouter(db))
   api.use('/measurements', measurementsRouter())
+  api.use('/settings', settingsRouter(db))
+  api.use('/mail', mailRouter(db, { fakeOn: config.MAIL_FAKE, now }))
   api.use(notFoundHandler)
   app.use('/api', api)
 

@@ -46,11 +46,20 @@ const envSchema = z.object({
   SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(4782),
   MAIL_FROM: z.string().default('Endplate <endplate@clinic.invalid>'),
   MAIL_FAKE: bool.default(true),
+  // Where people open Endplate: the links in mails start with it. Empty means http://HOST:PORT.
+  PUBLIC_URL: z
+    .union([z.literal(''), z.url({ protocol: /^https?$/, error: 'must be an http(s) address' })])
+    .default(''),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 })
 
 export type AppConfig = Readonly<
-  z.infer<typeof envSchema> & { uploadDirAbsolute: string; dataDirAbsolute: string }
+  z.infer<typeof envSchema> & {
+    uploadDirAbsolute: string
+    dataDirAbsolute: string
+    /** PUBLIC_URL without a trailing slash, or http://HOST:PORT when it is not set. */
+    publicUrl: string
+  }
 >
 
 /** Validates an environment (process.env by default) into the frozen configuration. */
@@ -64,6 +73,10 @@ export function parseConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
     ...parsed.data,
     uploadDirAbsolute: resolve(projectRoot, parsed.data.UPLOAD_DIR),
     dataDirAbsolute: resolve(projectRoot, parsed.data.DB_DATA_DIR),
+    publicUrl: (parsed.data.PUBLIC_URL || `http://${parsed.data.HOST}:${parsed.data.PORT}`).replace(
+      /\/+$/,
+      '',
+    ),
   })
 }
 

@@ -3,11 +3,37 @@ import { config } from './config'
 import { createDb } from './db/knex'
 import { createLogger } from './logger'
 import { createApp } from './app'
+import { startMailCatcher, type MailCatcher } from './mail/mail-catcher'
+import { createMailSender } from './mail/mail-sender'
 
-/** Starts the HTTP server; the only module that listens. Resolves once it is listening. */
+/**
+ * Starts the HTTP server (the only module that listens), the outbox's mail sender and, where
+ * MAIL_FAKE is on, the local fake mail server it delivers to. Resolves once all are listening.
+ */
 export async function startServer(): Promise<{ close(): Promise<void>; url: string }> {
   const logger = createLogger(config.LOG_LEVEL)
   const db = createDb(config.DB_NAME)
+  let catcher: MailCatcher | null = null
+  if (config.MAIL_FAKE) {
+    try {
+      catcher = await startMailCatcher({ db, logger, port: config.SMTP_PORT })
+      logger.info(`local mail catcher on 127.0.0.1:${catcher.port} (see the Mail screen)`)
+    } catch (error) {
+      // Mail then waits in the outbox (retried, shown to the administrator); the app still runs.
+      logger.error(
+        { err: error },
+        `the local mail catcher could not listen on 127.0.0.1:${config.SMTP_PORT}; mail stays in the outbox`,
+      )
+    }
+  }
+  const sender = createMailSender({
+    db,
+    logger,
+    from: config.MAIL_FROM,
+    publicUrl: config.publicUrl,
+    smtp: { host: config.SMTP_HOST, port: config.SMTP_PORT, ignoreTls: config.MAIL_FAKE },
+  })
+  sender.start()
   const server = createServer(createApp({ db, config, logger }))
   await new Promise<void>((resolveListen, reject) => {
     server.once('error', reject)
@@ -21,6 +47,8 @@ export async function startServer(): Promise<{ close(): Promise<void>; url: stri
       // Idle keep-alive connections would otherwise hold close() open for seconds.
       server.closeAllConnections()
       await closed
+      await sender.stop()
+      await catcher?.close()
       await db.destroy()
     },
   }

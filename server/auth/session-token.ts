@@ -9,6 +9,8 @@ export interface SessionClaims {
   role: Role
   /** One id per sign-in, kept across sliding renewals, so signing out ends every copy. */
   sid: string
+  /** The user's session generation at sign-in; a raised generation ends the session. */
+  gen?: number
   iat: number
   exp: number
 }
@@ -28,8 +30,9 @@ export function signSessionToken(
   role: Role,
   settings: TokenSettings,
   sessionId = newSessionId(),
+  generation = 0,
 ): string {
-  return jwt.sign({ role, sid: sessionId }, settings.secret, {
+  return jwt.sign({ role, sid: sessionId, gen: generation }, settings.secret, {
     algorithm: 'HS256',
     subject: String(userId),
     expiresIn: settings.lifetimeMinutes * 60,

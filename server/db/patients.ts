@@ -15,6 +15,8 @@ export interface PatientRecord {
   studyCode: string
   osteoporosis: boolean
   notes: string | null
+  responsibleSurgeonId: number | null
+  responsibleSurgeonName: string | null
   visitCount: number
   firstVisitDate: string | null
   lastVisitDate: string | null
@@ -33,6 +35,8 @@ interface PatientRow {
   study_code: string
   osteoporosis: number
   notes: string | null
+  responsible_surgeon_id: number | null
+  responsible_surgeon_name: string | null
   visit_count: number | string
   first_visit_date: Date | null
   last_visit_date: Date | null
@@ -52,6 +56,8 @@ function toPatient(row: PatientRow): PatientRecord {
     studyCode: row.study_code,
     osteoporosis: toBoolean(row.osteoporosis),
     notes: row.notes,
+    responsibleSurgeonId: row.responsible_surgeon_id,
+    responsibleSurgeonName: row.responsible_surgeon_name,
     visitCount: Number(row.visit_count),
     firstVisitDate: row.first_visit_date ? toIsoDate(row.first_visit_date) : null,
     lastVisitDate: row.last_visit_date ? toIsoDate(row.last_visit_date) : null,
@@ -79,6 +85,7 @@ function selectPatients(db: Db): Knex.QueryBuilder {
     .as('v')
   return db(`${TABLES.patients} as p`)
     .leftJoin(visitStats, 'v.patient_id', 'p.id')
+    .leftJoin(`${TABLES.users} as rs`, 'rs.id', 'p.responsible_surgeon_id')
     .select(
       'p.id',
       'p.record_number',
@@ -89,6 +96,8 @@ function selectPatients(db: Db): Knex.QueryBuilder {
       'p.study_code',
       'p.osteoporosis',
       'p.notes',
+      'p.responsible_surgeon_id',
+      'rs.display_name as responsible_surgeon_name',
       'p.version',
       'p.created_at',
       'p.updated_at',
@@ -176,6 +185,7 @@ export interface PatientWrite {
   sex: Sex
   osteoporosis: boolean
   notes: string | null
+  responsibleSurgeonId?: number | null
 }
 
 export async function insertPatient(
@@ -191,6 +201,7 @@ export async function insertPatient(
     study_code: patient.studyCode,
     osteoporosis: patient.osteoporosis,
     notes: patient.notes,
+    responsible_surgeon_id: patient.responsibleSurgeonId ?? null,
     created_by: patient.createdBy,
   })
   return id as number
@@ -223,6 +234,8 @@ export async function updatePatient(
   if (patch.sex !== undefined) columns.sex = patch.sex
   if (patch.osteoporosis !== undefined) columns.osteoporosis = patch.osteoporosis
   if (patch.notes !== undefined) columns.notes = patch.notes
+  if (patch.responsibleSurgeonId !== undefined)
+    columns.responsible_surgeon_id = patch.responsibleSurgeonId
   const changed = await db(TABLES.patients)
     .where({ id, version: expectedVersion })
     .update({ ...columns, version: db.raw('version + 1'), updated_at: new Date() })

@@ -158,14 +158,14 @@ export interface PatientReadingSummary {
 }
 
 /**
- * Every reading of a patient (drafts included: callers choose), superseded readings excluded,
- * newest first: latest visit, then last submitted (or started), then highest id.
+ * Every reading of a patient (drafts included: callers choose), superseded readings excluded
+ * (a signed reading stays the record until its amendment is signed), newest first: latest
+ * visit, then last submitted (or started), then highest id.
  */
 export async function listPatientReadings(
   db: Db,
   patientId: number,
 ): Promise<PatientReadingSummary[]> {
-  const superseded = db(TABLES.readings).whereNotNull('supersedes_id').select('supersedes_id')
   const rows = (await db(`${TABLES.readings} as r`)
     .join(`${TABLES.images} as i`, 'i.id', 'r.image_id')
     .join(`${TABLES.visits} as v`, 'v.id', 'i.visit_id')
@@ -182,7 +182,7 @@ export async function listPatientReadings(
       'v.months_since_surgery',
     )
     .where('v.patient_id', patientId)
-    .whereNotIn('r.id', superseded)
+    .whereNot('r.status', 'superseded')
     // Blinded re-readings belong to reliability rounds, not to the patient's care.
     .where('r.blinded', false)
     .orderBy([

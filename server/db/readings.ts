@@ -33,12 +33,21 @@ const COLUMNS = [
   'r.blinded',
   'r.supersedes_id',
   'r.supersede_reason',
+  'r.reviewer_id',
   'r.submitted_at',
   'r.signed_at',
   'r.signed_by',
+  'signer.display_name as signed_by_name',
+  'r.returned_by',
+  'returner.display_name as returned_by_name',
+  'r.returned_at',
+  'r.return_comment',
   'r.created_at',
   'r.updated_at',
 ]
+
+/** The amendment of reading `r` (at most one: a second is refused while one exists). */
+export const SUPERSEDED_BY = `(SELECT MIN(amendment.id) FROM ${TABLES.readings} AS amendment WHERE amendment.supersedes_id = r.id) AS superseded_by_id`
 
 function toReading(row: RawRow): ReadingRecord {
   return {
@@ -63,27 +72,43 @@ function toReading(row: RawRow): ReadingRecord {
     blinded: toBoolean(row.blinded as number),
     supersedesId: row.supersedes_id as number | null,
     supersedeReason: row.supersede_reason as string | null,
+    supersededById: (row.superseded_by_id as number | null) ?? null,
+    reviewerId: row.reviewer_id as number | null,
     submittedAt: toIsoDateTimeOrNull(row.submitted_at as Date | null),
     signedAt: toIsoDateTimeOrNull(row.signed_at as Date | null),
     signedBy: row.signed_by as number | null,
+    signedByName: (row.signed_by_name as string | null) ?? null,
+    returnedBy: row.returned_by as number | null,
+    returnedByName: (row.returned_by_name as string | null) ?? null,
+    returnedAt: toIsoDateTimeOrNull(row.returned_at as Date | null),
+    returnComment: row.return_comment as string | null,
     createdAt: toIsoDateTime(row.created_at as Date),
     updatedAt: toIsoDateTime(row.updated_at as Date),
   }
 }
 
 const withRater = (db: Db) =>
-  db(`${TABLES.readings} as r`).join(`${TABLES.users} as u`, 'u.id', 'r.rater_id')
+  db(`${TABLES.readings} as r`)
+    .join(`${TABLES.users} as u`, 'u.id', 'r.rater_id')
+    .leftJoin(`${TABLES.users} as signer`, 'signer.id', 'r.signed_by')
+    .leftJoin(`${TABLES.users} as returner`, 'returner.id', 'r.returned_by')
+
+const selectReadings = (db: Db) => withRater(db).select([...COLUMNS, db.raw(SUPERSEDED_BY)])
 
 export async function findReading(db: Db, id: number): Promise<ReadingRecord | undefined> {
   if (!Number.isSafeInteger(id)) return undefined
-  const row = (await withRater(db).select(COLUMNS).where('r.id', id).first()) as RawRow | undefined
+  const row = (await selectReadings(db).where('r.id', id).first()) as RawRow | undefined
   return row ? toReading(row) : undefined
+}
+
+/** Locks a reading's row for the rest of the transaction (sign-off checks, then writes). */
+export async function lockReading(db: Db, id: number): Promise<void> {
+  await db(TABLES.readings).where({ id }).forUpdate().first('id')
 }
 
 /** Readings of a film (as the first film or as the paired one), newest first. */
 export async function listReadingsOfImage(db: Db, imageId: number): Promise<ReadingRecord[]> {
-  const rows = (await withRater(db)
-    .select(COLUMNS)
+  const rows = (await selectReadings(db)
     .where((query) => query.where('r.image_id', imageId).orWhere('r.paired_image_id', imageId))
     .orderBy([
       { column: 'r.created_at', order: 'desc' },
@@ -108,6 +133,8 @@ export interface NewReading extends ReadingComputation {
   raterId: number
   template: ReadingTemplate
   options: TemplateOptions
+  /** An amendment: the signed reading it replaces once signed, and why. */
+  supersedes?: { id: number; reason: string }
 }
 
 function computationColumns(computation: ReadingComputation) {
@@ -133,10 +160,15 @@ export async function insertReading(db: Db, reading: NewReading): Promise<number
     template: reading.template,
     segment: reading.options.segment ?? null,
     template_options: JSON.stringify(reading.options),
+    supersedes_id: reading.supersedes?.id ?? null,
+    supersede_reason: reading.supersedes?.reason ?? null,
     ...computationColumns(reading),
   })
   return id as number
 }
+
+/** Statuses in which the rater still edits: a draft, or a reading returned for changes. */
+const EDITABLE = ['draft', 'returned'] as const
 
 /** Saves a draft only if nobody saved it since `expectedVersion`; false otherwise. */
 export async function updateDraftReading(
@@ -146,7 +178,8 @@ export async function updateDraftReading(
   computation: ReadingComputation,
 ): Promise<boolean> {
   const changed = await db(TABLES.readings)
-    .where({ id, version: expectedVersion, status: 'draft' })
+    .where({ id, version: expectedVersion })
+    .whereIn('status', EDITABLE)
     .update({
       ...computationColumns(computation),
       version: db.raw('version + 1'),
@@ -155,23 +188,81 @@ export async function updateDraftReading(
   return changed === 1
 }
 
-/** Moves a draft to submitted with its final computation, under the same version guard. */
+/**
+ * Moves a draft (or a returned reading) to submitted with its final computation and the surgeon
+ * it goes to, under the same version guard.
+ */
 export async function submitDraftReading(
   db: Db,
   id: number,
   expectedVersion: number,
   computation: ReadingComputation,
+  reviewerId: number | null,
 ): Promise<boolean> {
   const now = new Date()
   const changed = await db(TABLES.readings)
-    .where({ id, version: expectedVersion, status: 'draft' })
+    .where({ id, version: expectedVersion })
+    .whereIn('status', EDITABLE)
     .update({
       ...computationColumns(computation),
       status: 'submitted',
       submitted_at: now,
+      reviewer_id: reviewerId,
       version: db.raw('version + 1'),
       updated_at: now,
     })
+  return changed === 1
+}
+
+/** Signs a submitted reading with its final computation; false when the guard fails. */
+export async function signSubmittedReading(
+  db: Db,
+  id: number,
+  expectedVersion: number,
+  computation: ReadingComputation,
+  signerId: number,
+): Promise<boolean> {
+  const now = new Date()
+  const changed = await db(TABLES.readings)
+    .where({ id, version: expectedVersion, status: 'submitted' })
+    .update({
+      ...computationColumns(computation),
+      status: 'signed',
+      signed_by: signerId,
+      signed_at: now,
+      version: db.raw('version + 1'),
+      updated_at: now,
+    })
+  return changed === 1
+}
+
+/** Sends a submitted reading back to its rater with the surgeon's comment. */
+export async function returnSubmittedReading(
+  db: Db,
+  id: number,
+  expectedVersion: number,
+  returnedBy: number,
+  comment: string,
+): Promise<boolean> {
+  const now = new Date()
+  const changed = await db(TABLES.readings)
+    .where({ id, version: expectedVersion, status: 'submitted' })
+    .update({
+      status: 'returned',
+      returned_by: returnedBy,
+      returned_at: now,
+      return_comment: comment,
+      version: db.raw('version + 1'),
+      updated_at: now,
+    })
+  return changed === 1
+}
+
+/** The signed original of a signed amendment becomes superseded. */
+export async function supersedeSignedReading(db: Db, id: number): Promise<boolean> {
+  const changed = await db(TABLES.readings)
+    .where({ id, status: 'signed' })
+    .update({ status: 'superseded', version: db.raw('version + 1'), updated_at: new Date() })
   return changed === 1
 }
 
@@ -186,10 +277,9 @@ export async function findConstructBaselines(
   patientId: number,
   current: { readingId: number | null; visitId: number; visitDate: string },
 ): Promise<ReadingRecord[]> {
-  const query = withRater(db)
+  const query = selectReadings(db)
     .join(`${TABLES.images} as i`, 'i.id', 'r.image_id')
     .join(`${TABLES.visits} as v`, 'v.id', 'i.visit_id')
-    .select(COLUMNS)
     .where({ 'v.patient_id': patientId, 'v.kind': 'post-op', 'r.template': 'construct-check' })
     .whereIn('r.status', ['submitted', 'signed'])
     .where('v.visit_date', '<=', current.visitDate)

@@ -19,10 +19,14 @@ export const TABLES = {
   siteSettings: 'site_settings',
   mailOutbox: 'mail_outbox',
   revokedSessions: 'revoked_sessions',
+  passwordResets: 'password_resets',
+  caughtMails: 'caught_mails',
 } as const
 
 /** Child tables before parents: the order to truncate or delete in. */
 export const TABLES_CHILDREN_FIRST = [
+  TABLES.caughtMails,
+  TABLES.passwordResets,
   TABLES.revokedSessions,
   TABLES.mailOutbox,
   TABLES.auditEvents,

@@ -9,6 +9,8 @@ export interface UserRecord {
   displayName: string
   role: Role
   active: boolean
+  /** Raised to end every session of the user at once (tokens carry the generation they got). */
+  sessionGeneration: number
   failedAttempts: number
   lockedUntil: Date | null
   lastLoginAt: string | null
@@ -21,6 +23,7 @@ interface UserRow {
   display_name: string
   role: Role
   active: number
+  session_generation: number
   failed_attempts: number
   locked_until: Date | null
   last_login_at: Date | null
@@ -33,6 +36,7 @@ const COLUMNS = [
   'display_name',
   'role',
   'active',
+  'session_generation',
   'failed_attempts',
   'locked_until',
   'last_login_at',
@@ -46,6 +50,7 @@ function toUser(row: UserRow): UserRecord {
     displayName: row.display_name,
     role: row.role,
     active: toBoolean(row.active),
+    sessionGeneration: row.session_generation,
     failedAttempts: row.failed_attempts,
     lockedUntil: row.locked_until,
     lastLoginAt: toIsoDateTimeOrNull(row.last_login_at),
@@ -116,4 +121,60 @@ export async function insertUser(db: Db, user: NewUser): Promise<number> {
 export async function listUsers(db: Db): Promise<UserRecord[]> {
   const rows = (await db(TABLES.users).select(COLUMNS).orderBy('display_name')) as UserRow[]
   return rows.map(toUser)
+}
+
+export async function findUserByEmail(db: Db, email: string): Promise<UserRecord | undefined> {
+  const row = (await db(TABLES.users)
+    .select(COLUMNS)
+    .where({ email: email.trim().toLowerCase() })
+    .first()) as UserRow | undefined
+  return row ? toUser(row) : undefined
+}
+
+/** Active accounts of a role, by name: who a submission goes to when a patient has no surgeon. */
+export async function listActiveUsersWithRole(db: Db, role: Role): Promise<UserRecord[]> {
+  const rows = (await db(TABLES.users)
+    .select(COLUMNS)
+    .where({ role, active: true })
+    .orderBy('display_name')) as UserRow[]
+  return rows.map(toUser)
+}
+
+export async function findUsersByIds(db: Db, ids: readonly number[]): Promise<UserRecord[]> {
+  if (ids.length === 0) return []
+  const rows = (await db(TABLES.users).select(COLUMNS).whereIn('id', ids)) as UserRow[]
+  return rows.map(toUser)
+}
+
+export interface UserUpdate {
+  role?: Role
+  active?: boolean
+  displayName?: string
+  passwordHash?: string
+  /** Ends every session the user has open. */
+  endSessions?: boolean
+}
+
+export async function updateUser(db: Db, id: number, update: UserUpdate): Promise<void> {
+  const columns: Record<string, unknown> = { updated_at: new Date() }
+  if (update.role !== undefined) columns.role = update.role
+  if (update.active !== undefined) columns.active = update.active
+  if (update.displayName !== undefined) columns.display_name = update.displayName
+  if (update.passwordHash !== undefined) {
+    columns.password_hash = update.passwordHash
+    // A new password also lifts a sign-in lock.
+    columns.failed_attempts = 0
+    columns.locked_until = null
+  }
+  if (update.endSessions) columns.session_generation = db.raw('session_generation + 1')
+  await db(TABLES.users).where({ id }).update(columns)
+}
+
+/** Active administrators, locked for the rest of the transaction (the last one must stay). */
+export async function lockActiveAdminIds(db: Db): Promise<number[]> {
+  const rows = (await db(TABLES.users)
+    .select('id')
+    .where({ role: 'admin', active: true })
+    .forUpdate()) as Array<{ id: number }>
+  return rows.map((row) => row.id)
 }

@@ -27,21 +27,20 @@ export function sessionCookieOptions(settings: SessionCookieSettings): CookieOpt
 
 export function setSessionCookie(
   res: Response,
-  userId: number,
-  role: Role,
+  user: { id: number; role: Role; sessionGeneration: number },
   settings: SessionCookieSettings,
   sessionId?: string,
 ): void {
   res.cookie(
     SESSION_COOKIE,
-    signSessionToken(userId, role, settings, sessionId),
+    signSessionToken(user.id, user.role, settings, sessionId, user.sessionGeneration),
     sessionCookieOptions(settings),
   )
 }
 
 /**
- * Checks the session cookie and loads the account on every request, so a deactivated user or a
- * changed role takes effect at once although the token itself is stateless. Past half its
+ * Checks the session cookie and loads the account on every request, so a deactivated user, a
+ * changed role or ended sessions take effect at once although the token itself is stateless. Past half its
  * lifetime the token is renewed (sliding expiry).
  */
 export function authenticate(db: Db, settings: SessionCookieSettings): RequestHandler {
@@ -54,11 +53,13 @@ export function authenticate(db: Db, settings: SessionCookieSettings): RequestHa
       throw unauthorized('You have signed out. Please sign in again.')
     const user = await findUserById(db, Number(claims.sub))
     if (!user || !user.active) throw unauthorized('This account is not active.')
+    if ((claims.gen ?? 0) !== user.sessionGeneration)
+      throw unauthorized('This session was ended (a new password was set). Please sign in again.')
     req.user = { id: user.id, email: user.email, displayName: user.displayName, role: user.role }
     req.session = { id: claims.sid, expiresAt: new Date(claims.exp * 1000) }
     const halfLifeSeconds = (settings.lifetimeMinutes * 60) / 2
     if (claims.exp - Date.now() / 1000 < halfLifeSeconds)
-      setSessionCookie(res, user.id, user.role, settings, claims.sid)
+      setSessionCookie(res, user, settings, claims.sid)
     next()
   }
 }

@@ -5,37 +5,94 @@ import { validate } from '../middleware/validate'
 import { setSessionCookie, type SessionCookieSettings } from '../middleware/authenticate'
 import { SESSION_COOKIE } from '../auth/session-token'
 import { loginBody } from '../schemas/auth'
+import { passwordBody, passwordResetRequestBody, tokenParam } from '../schemas/accounts'
 import { login, logout } from '../services/auth'
+import {
+  completePasswordReset,
+  previewPasswordReset,
+  requestPasswordReset,
+} from '../services/password-reset'
+import type { Clock } from '../clock'
 import { actorOf } from './actor'
 
 export interface AuthRouterOptions {
   db: Db
+  now: Clock
   session: SessionCookieSettings
   authenticate: RequestHandler
   maxFailures: number
   loginsPerMinute: number
 }
 
-export function authRouter(options: AuthRouterOptions): Router {
-  const router = Router()
-  const loginLimiter = rateLimit({
+/** Per-address limit on anonymous account requests (sign-in, reset and invitation links). */
+export function accountRequestLimiter(perMinute: number, what: string): RequestHandler {
+  return rateLimit({
     windowMs: 60_000,
-    limit: options.loginsPerMinute,
+    limit: perMinute,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     message: {
       error: {
         code: 'rate_limited',
-        message: 'Too many sign-in attempts. Wait a minute and try again.',
+        message: `Too many ${what}. Wait a minute and try again.`,
       },
     },
   })
+}
+
+export function authRouter(options: AuthRouterOptions): Router {
+  const router = Router()
+  const loginLimiter = accountRequestLimiter(options.loginsPerMinute, 'sign-in attempts')
+  const resetLimiter = accountRequestLimiter(options.loginsPerMinute, 'password requests')
 
   router.post('/login', loginLimiter, validate('body', loginBody), async (req, res) => {
-    const user = await login(options.db, req.body, options.maxFailures, req.ip ?? null)
-    setSessionCookie(res, user.id, user.role, options.session)
-    res.json(user)
+    const signedIn = await login(options.db, req.body, options.maxFailures, req.ip ?? null)
+    setSessionCookie(
+      res,
+      { ...signedIn.user, sessionGeneration: signedIn.sessionGeneration },
+      options.session,
+    )
+    res.json(signedIn.user)
   })
+
+  router.post(
+    '/password-reset',
+    resetLimiter,
+    validate('body', passwordResetRequestBody),
+    async (req, res) => {
+      await requestPasswordReset(options.db, req.body.email, req.ip ?? null, options.now)
+      res.status(202).json({
+        message:
+          'If an active account uses this address, a link to choose a new password is on its way. It works once, within an hour.',
+      })
+    },
+  )
+
+  router.get(
+    '/password-reset/:token',
+    resetLimiter,
+    validate('params', tokenParam),
+    async (_req, res) => {
+      res.json(await previewPasswordReset(options.db, res.locals.params.token, options.now))
+    },
+  )
+
+  router.post(
+    '/password-reset/:token',
+    resetLimiter,
+    validate('params', tokenParam),
+    validate('body', passwordBody),
+    async (req, res) => {
+      await completePasswordReset(
+        options.db,
+        res.locals.params.token,
+        req.body.password,
+        req.ip ?? null,
+        options.now,
+      )
+      res.status(204).end()
+    },
+  )
 
   router.post('/logout', options.authenticate, async (req, res) => {
     await logout(options.db, actorOf(req), req.session ?? null, options.session.lifetimeMinutes)

@@ -3,7 +3,15 @@ import type { Db } from '../db/knex'
 import { validate } from '../middleware/validate'
 import { requirePermission } from '../middleware/require-permission'
 import { idParam } from '../schemas/common'
-import { createReadingBody, patchReadingBody, submitReadingBody } from '../schemas/readings'
+import {
+  amendmentBody,
+  commentBody,
+  createReadingBody,
+  patchReadingBody,
+  readingQuery,
+  returnReadingBody,
+  submitReadingBody,
+} from '../schemas/readings'
 import {
   createReading,
   getReading,
@@ -12,6 +20,9 @@ import {
   ReadingConflictError,
   submitReading,
 } from '../services/readings'
+import { amendReading, returnReading, signReading } from '../services/reading-review'
+import { addReadingComment, listReadingComments } from '../services/reading-comments'
+import { listReadings } from '../services/reading-worklist'
 import { actorOf } from './actor'
 
 /** A version conflict answers the usual error body plus the reading as it now stands. */
@@ -47,6 +58,15 @@ export function readingsRouter(db: Db): Router {
   )
 
   router.get(
+    '/readings',
+    requirePermission('patient:read'),
+    validate('query', readingQuery),
+    async (req, res) => {
+      res.json(await listReadings(db, actorOf(req), res.locals.query))
+    },
+  )
+
+  router.get(
     '/readings/:id',
     requirePermission('patient:read'),
     validate('params', idParam),
@@ -72,6 +92,59 @@ export function readingsRouter(db: Db): Router {
     validate('body', submitReadingBody),
     async (req, res) => {
       res.json(await submitReading(db, actorOf(req), res.locals.params.id, req.body.version))
+    },
+  )
+
+  router.post(
+    '/readings/:id/sign',
+    requirePermission('reading:sign'),
+    validate('params', idParam),
+    validate('body', submitReadingBody),
+    async (req, res) => {
+      res.json(await signReading(db, actorOf(req), res.locals.params.id, req.body.version))
+    },
+  )
+
+  router.post(
+    '/readings/:id/return',
+    requirePermission('reading:sign'),
+    validate('params', idParam),
+    validate('body', returnReadingBody),
+    async (req, res) => {
+      res.json(await returnReading(db, actorOf(req), res.locals.params.id, req.body))
+    },
+  )
+
+  router.post(
+    '/readings/:id/amendments',
+    requirePermission('reading:write'),
+    validate('params', idParam),
+    validate('body', amendmentBody),
+    async (req, res) => {
+      res
+        .status(201)
+        .json(await amendReading(db, actorOf(req), res.locals.params.id, req.body.reason))
+    },
+  )
+
+  router.get(
+    '/readings/:id/comments',
+    requirePermission('reading:comment'),
+    validate('params', idParam),
+    async (req, res) => {
+      res.json(await listReadingComments(db, actorOf(req), res.locals.params.id))
+    },
+  )
+
+  router.post(
+    '/readings/:id/comments',
+    requirePermission('reading:comment'),
+    validate('params', idParam),
+    validate('body', commentBody),
+    async (req, res) => {
+      res
+        .status(201)
+        .json(await addReadingComment(db, actorOf(req), res.locals.params.id, req.body.text))
     },
   )
 

@@ -26,6 +26,12 @@ const patientFields = {
   sex: z.enum(SEXES, { error: `must be one of ${SEXES.join(', ')}` }),
   osteoporosis: z.boolean({ error: 'must be true or false' }).optional(),
   notes: trimmed(4000).nullable().optional(),
+  responsibleSurgeonId: z
+    .number({ error: 'must be the id of a surgeon, or null' })
+    .int()
+    .positive()
+    .nullable()
+    .optional(),
 }
 
 export const createPatientBody = z.strictObject(patientFields) satisfies z.ZodType<PatientInput>

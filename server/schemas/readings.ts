@@ -1,6 +1,19 @@
 import { z } from 'zod'
-import { MOTION_SEGMENTS, READING_TEMPLATES, type ReadingTemplate } from '../../shared/types/domain'
-import type { CreateReadingInput, PatchReadingInput } from '../../shared/types/readings'
+import {
+  MOTION_SEGMENTS,
+  READING_STATUSES,
+  READING_TEMPLATES,
+  type ReadingTemplate,
+} from '../../shared/types/domain'
+import {
+  READING_SORT_FIELDS,
+  type AmendmentInput,
+  type CommentInput,
+  type CreateReadingInput,
+  type PatchReadingInput,
+  type ReadingQuery,
+  type ReturnReadingInput,
+} from '../../shared/types/readings'
 import type { TemplateOptions } from '../../shared/readings/templates'
 import { version } from './common'
 
@@ -123,3 +136,57 @@ export const patchReadingBody = z.strictObject({
 }) satisfies z.ZodType<PatchReadingInput>
 
 export const submitReadingBody = z.strictObject({ version })
+
+const freeText = (max: number, what: string) =>
+  z
+    .string({ error: `${what} is required` })
+    .trim()
+    .min(1, `${what} is required`)
+    .max(max, `${what} must be at most ${max} characters`)
+
+export const returnReadingBody = z.strictObject({
+  version,
+  comment: freeText(2000, 'a comment saying what to change'),
+}) satisfies z.ZodType<ReturnReadingInput>
+
+export const amendmentBody = z.strictObject({
+  reason: freeText(500, 'a reason for the amendment'),
+}) satisfies z.ZodType<AmendmentInput>
+
+export const commentBody = z.strictObject({
+  text: freeText(2000, 'the comment'),
+}) satisfies z.ZodType<CommentInput>
+
+const me = z.literal('me', { error: 'can only be me' }).optional()
+
+export const readingQuery = z.object({
+  status: z
+    .string()
+    .transform((text) => text.split(',').filter(Boolean))
+    .pipe(
+      z.array(
+        z.enum(READING_STATUSES, { error: `must list some of ${READING_STATUSES.join(', ')}` }),
+      ),
+    )
+    .optional(),
+  rater: me,
+  awaiting: me,
+  signedBy: me,
+  returnedBy: me,
+  patientId: z.coerce.number({ error: 'must be a patient id' }).int().positive().optional(),
+  sort: z
+    .enum(READING_SORT_FIELDS, { error: `must be one of ${READING_SORT_FIELDS.join(', ')}` })
+    .optional(),
+  order: z.enum(['asc', 'desc'], { error: 'must be asc or desc' }).optional(),
+  offset: z.coerce
+    .number({ error: 'must be a number' })
+    .int()
+    .min(0, 'cannot be negative')
+    .optional(),
+  limit: z.coerce
+    .number({ error: 'must be a number' })
+    .int()
+    .min(1, 'must be at least 1')
+    .max(100, 'must be at most 100')
+    .optional(),
+}) satisfies z.ZodType<ReadingQuery, unknown>

@@ -1,11 +1,18 @@
 import bcrypt from 'bcryptjs'
 import type { Db } from '../db/knex'
 import { findUserForLogin, recordFailedLogin, recordSuccessfulLogin } from '../db/users'
-import { HttpError } from '../errors'
+import { badRequest, HttpError } from '../errors'
 import { insertAuditEvent } from '../db/audit'
 import { revokeSession } from '../db/revoked-sessions'
 import { audit, type Actor } from './audit'
 import type { LoginInput, SessionUser } from '../../shared/types/api'
+import { passwordProblem } from '../../shared/accounts/password-rules'
+
+/** A signed-in user and the session generation their token must carry. */
+export interface SignedInUser {
+  user: SessionUser
+  sessionGeneration: number
+}
 
 /** One message for every failure, so the answer never tells which accounts exist or are locked. */
 export const LOGIN_FAILED_MESSAGE =
@@ -22,7 +29,7 @@ export async function login(
   input: LoginInput,
   maxFailures: number,
   ip: string | null,
-): Promise<SessionUser> {
+): Promise<SignedInUser> {
   const user = await findUserForLogin(db, input.email)
   const passwordMatches = await bcrypt.compare(input.password, user?.passwordHash ?? DUMMY_HASH)
   const locked =
@@ -65,11 +72,20 @@ export async function login(
     summary: 'Signed in',
     ip,
   })
-  return { id: user.id, email: user.email, displayName: user.displayName, role: user.role }
+  return {
+    user: { id: user.id, email: user.email, displayName: user.displayName, role: user.role },
+    sessionGeneration: user.sessionGeneration,
+  }
 }
 
 export async function hashPassword(password: string): Promise<string> {
   return bcrypt.hash(password, 10)
+}
+
+/** The rules for a new password (set from an invitation or a reset link); 400 naming the rule. */
+export function assertPasswordAllowed(password: string, email: string): void {
+  const problem = passwordProblem(password, email)
+  if (problem) throw badRequest(`password: ${problem}`, { password: [`password: ${problem}`] })
 }
 
 /**

@@ -10,6 +10,7 @@ import {
 } from '../db/patients'
 import { deidentifiedAgeInYears } from '../db/rows'
 import { badRequest, conflict, notFound } from '../errors'
+import { findUserById } from '../db/users'
 import type {
   DeidentifiedPatient,
   IdentifiedPatient,
@@ -34,6 +35,8 @@ export function toIdentifiedPatient(record: PatientRecord): IdentifiedPatient {
     studyCode: record.studyCode,
     osteoporosis: record.osteoporosis,
     notes: record.notes,
+    responsibleSurgeonId: record.responsibleSurgeonId,
+    responsibleSurgeonName: record.responsibleSurgeonName,
     visitCount: record.visitCount,
     lastVisitDate: record.lastVisitDate,
     version: record.version,
@@ -125,6 +128,17 @@ async function assertRecordNumberFree(
   }
 }
 
+/** A responsible surgeon must be an active surgeon's account. */
+async function assertSurgeon(db: Db, id: number | null | undefined): Promise<void> {
+  if (id === null || id === undefined) return
+  const user = await findUserById(db, id)
+  if (!user || !user.active || user.role !== 'surgeon') {
+    throw badRequest(`responsibleSurgeonId: ${id} is not an active surgeon`, {
+      responsibleSurgeonId: ['responsibleSurgeonId: choose an active surgeon'],
+    })
+  }
+}
+
 export async function createPatient(
   db: Db,
   actor: Actor,
@@ -132,6 +146,7 @@ export async function createPatient(
 ): Promise<IdentifiedPatient> {
   return db.transaction(async (trx) => {
     await assertRecordNumberFree(trx, input.recordNumber)
+    await assertSurgeon(trx, input.responsibleSurgeonId)
     const id = await insertPatient(trx, {
       recordNumber: input.recordNumber,
       familyName: input.familyName,
@@ -140,6 +155,7 @@ export async function createPatient(
       sex: input.sex,
       osteoporosis: input.osteoporosis ?? false,
       notes: input.notes ?? null,
+      responsibleSurgeonId: input.responsibleSurgeonId ?? null,
       studyCode: await uniqueStudyCode(trx),
       createdBy: actor.user.id,
     })
@@ -162,6 +178,7 @@ export async function patchPatient(
     const { version, ...fields } = patch
     if (fields.recordNumber !== undefined)
       await assertRecordNumberFree(trx, fields.recordNumber, id)
+    await assertSurgeon(trx, fields.responsibleSurgeonId)
     if (
       fields.birthDate !== undefined &&
       current.firstVisitDate !== null &&

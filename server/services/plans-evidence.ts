@@ -2,6 +2,7 @@ import type { PatientReadingSummary } from '../db/plans'
 import type { MotionSegment } from '../../shared/types/domain'
 import type { SegmentMeasurement } from '../../shared/types/measurement'
 import type { MeasuredValue, MeasureSource, SegmentEvidence } from '../../shared/types/plans'
+import { COUNTED_STATUSES } from '../../shared/readings/reading-status'
 
 /** Templates whose neutral-film measurements describe a segment's shape before surgery. */
 const SHAPE_TEMPLATES = new Set(['slip-grade', 'lumbar-alignment'])
@@ -40,7 +41,9 @@ export function firstMeasured<T>(
 export function preOpEvidenceReadings(
   readings: readonly PatientReadingSummary[],
 ): PatientReadingSummary[] {
-  return readings.filter((reading) => reading.visitKind === 'pre-op' && reading.status !== 'draft')
+  return readings.filter(
+    (reading) => reading.visitKind === 'pre-op' && COUNTED_STATUSES.includes(reading.status),
+  )
 }
 
 /** A slip-grade reading measures its own segment only; a lumbar-alignment reading all five. */

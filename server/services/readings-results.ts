@@ -7,7 +7,11 @@ import {
 } from '../../shared/measurement/index'
 import type { ImageRow } from '../db/images'
 import type { LandmarkDocument, PixelPoint } from '../../shared/types/landmarks'
-import type { ReadingCalibration, ReadingResults } from '../../shared/types/readings'
+import type {
+  ReadingCalibration,
+  ReadingResults,
+  ResultSettings,
+} from '../../shared/types/readings'
 import type { TemplateOptions } from '../../shared/readings/templates'
 import type { ReadingTemplate } from '../../shared/types/domain'
 
@@ -36,8 +40,8 @@ export interface ResultsInput {
   pairedDocument: LandmarkDocument | null
   /** Construct check: candidate baseline readings, earliest first (see findConstructBaselines). */
   baselines: Array<{ readingId: number; document: LandmarkDocument }>
-  sigmaMm: number
-  subsidenceThresholdMm: number
+  /** The site settings in force; recorded with the results. */
+  settings: ResultSettings
 }
 
 /** Throws when a number is NaN or infinite: such a value must never reach the database. */
@@ -59,7 +63,7 @@ function subsidenceBySegment(input: ResultsInput): ReadingResults['subsidence'] 
   for (const { segment } of input.options.construct ?? []) {
     for (const baseline of input.baselines) {
       const all = computeSubsidence(input.document, baseline.document, {
-        thresholdMm: input.subsidenceThresholdMm,
+        thresholdMm: input.settings.subsidenceThresholdMm,
       })
       const result = all.segments[segment]
       if (result === undefined) continue
@@ -82,7 +86,7 @@ function subsidenceBySegment(input: ResultsInput): ReadingResults['subsidence'] 
 export function computeReadingResults(input: ResultsInput): ReadingResults {
   const measurements = computeMeasurements(input.document)
   const uncertainty = computeUncertainty(input.document, {
-    sigmaMm: input.sigmaMm,
+    sigmaMm: input.settings.landmarkSigmaMm,
     sigmaPx: DEFAULT_SIGMA_PX,
   })
   const motion =
@@ -99,6 +103,7 @@ export function computeReadingResults(input: ResultsInput): ReadingResults {
       subsidence === null
         ? null
         : Math.min(...Object.values(subsidence).map((entry) => entry.baselineReadingId)),
+    computedWith: { ...input.settings },
   }
   assertFinite(results, 'results')
   return results

@@ -11,14 +11,10 @@ import {
   type ReadingComputation,
   type ReadingRecord,
 } from '../db/readings'
-import { findSiteSetting } from '../db/site-settings'
-import { asNotFound, badRequest, forbidden, HttpError, notFound } from '../errors'
+import { asNotFound, badRequest, HttpError, notFound } from '../errors'
 import { APP_VERSION } from '../version'
-import {
-  DEFAULT_SIGMA_MM,
-  DEFAULT_SUBSIDENCE_THRESHOLD_MM,
-  LandmarkDocumentError,
-} from '../../shared/measurement/index'
+import { LandmarkDocumentError } from '../../shared/measurement/index'
+import { readingActionRefusal, type ReadingAction } from '../../shared/readings/reading-status'
 import {
   templateLandmarks,
   TEMPLATE_LABELS,
@@ -30,6 +26,8 @@ import type { CreateReadingInput, PatchReadingInput, Reading } from '../../share
 import { actorIdentifies, audit, type Actor } from './audit'
 import { loadVisibleImage } from './images'
 import { calibrationOf, computeReadingResults, landmarkDocument } from './readings-results'
+import { loadSiteSettings } from './site-settings'
+import { notifyReadingSubmitted, reviewerFor } from './reading-notifications'
 
 type Points = Record<string, PixelPoint>
 
@@ -44,16 +42,26 @@ export class ReadingConflictError extends HttpError {
 }
 
 /**
- * Researchers get no timestamps: readings are usually made on the visit day, so they would
- * date the visit. Everyone else gets the record as it is.
+ * Researchers get no timestamps (readings are usually made on the visit day, so they would date
+ * the visit) and no free text (a comment or reason may name the patient). Everyone else gets
+ * the record as it is.
  */
-function toReadingDto(record: ReadingRecord, identified = true): Reading {
+export function toReadingDto(record: ReadingRecord, identified = true): Reading {
   if (identified) return { ...record }
-  return { ...record, createdAt: null, updatedAt: null, submittedAt: null, signedAt: null }
+  return {
+    ...record,
+    createdAt: null,
+    updatedAt: null,
+    submittedAt: null,
+    signedAt: null,
+    returnedAt: null,
+    returnComment: null,
+    supersedeReason: null,
+  }
 }
 
 /** Loads a reading whose film the actor may see, with that film; anything else is a 404. */
-async function loadVisibleReading(
+export async function loadVisibleReading(
   db: Db,
   actor: Actor,
   id: number,
@@ -65,12 +73,6 @@ async function loadVisibleReading(
   } catch (error) {
     return asNotFound(error, 'reading')
   }
-}
-
-/** Site settings the engine needs, with the reference defaults (measurement-reference §7, §8). */
-async function nonNegativeSetting(db: Db, key: string, fallback: number): Promise<number> {
-  const value = await findSiteSetting(db, key)
-  return typeof value === 'number' && Number.isFinite(value) && value >= 0 ? value : fallback
 }
 
 /** Every landmark must belong to the template and lie on its film. */
@@ -102,7 +104,7 @@ function checkPoints(
   }
 }
 
-interface ComputeContext {
+export interface ComputeContext {
   readingId: number | null
   template: ReadingTemplate
   options: TemplateOptions
@@ -113,7 +115,7 @@ interface ComputeContext {
 }
 
 /** Runs the engine on a reading's landmarks; the engine's refusal is a 400 and stores nothing. */
-async function compute(db: Db, context: ComputeContext): Promise<ReadingComputation> {
+export async function compute(db: Db, context: ComputeContext): Promise<ReadingComputation> {
   const calibration = calibrationOf(context.image)
   const pairedCalibration = context.pairedImage ? calibrationOf(context.pairedImage) : null
   const document = landmarkDocument(context.points, calibration)
@@ -132,6 +134,7 @@ async function compute(db: Db, context: ComputeContext): Promise<ReadingComputat
       : []
     baselines = found.map((reading) => ({ readingId: reading.id, document: reading.landmarks }))
   }
+  const settings = await loadSiteSettings(db)
   try {
     const results = computeReadingResults({
       template: context.template,
@@ -139,12 +142,11 @@ async function compute(db: Db, context: ComputeContext): Promise<ReadingComputat
       document,
       pairedDocument,
       baselines,
-      sigmaMm: await nonNegativeSetting(db, 'landmarkSigmaMm', DEFAULT_SIGMA_MM),
-      subsidenceThresholdMm: await nonNegativeSetting(
-        db,
-        'subsidenceThresholdMm',
-        DEFAULT_SUBSIDENCE_THRESHOLD_MM,
-      ),
+      settings: {
+        landmarkSigmaMm: settings.landmarkSigmaMm,
+        subsidenceThresholdMm: settings.subsidenceThresholdMm,
+        instabilityCriterion: settings.instabilityCriterion,
+      },
     })
     return {
       landmarks: document,
@@ -183,7 +185,7 @@ async function loadPairedImage(db: Db, image: ImageRow, pairedImageId: number): 
   return paired
 }
 
-async function reload(db: Db, id: number): Promise<ReadingRecord> {
+export async function reload(db: Db, id: number): Promise<ReadingRecord> {
   const reading = await findReading(db, id)
   if (!reading) throw notFound('reading')
   return reading
@@ -256,23 +258,30 @@ export async function listImageReadings(db: Db, actor: Actor, imageId: number): 
   )
 }
 
-/** Rater only, drafts only, and only from the version the rater last saw. */
-function assertEditable(reading: ReadingRecord, actor: Actor, version: number): void {
-  if (reading.raterId !== actor.user.id)
-    throw forbidden('Only the rater who started this reading can change it.')
-  if (reading.status !== 'draft') {
-    throw new HttpError(
-      409,
-      'reading_not_draft',
-      `This reading is already ${reading.status}; it can no longer be changed.`,
-    )
-  }
-  if (reading.version !== version) {
-    throw new ReadingConflictError(
-      'This reading was saved elsewhere since you opened it. Nothing was overwritten: compare with the current landmarks and save again.',
-      toReadingDto(reading),
-    )
-  }
+const STALE_MESSAGES: Record<ReadingAction, string> = {
+  edit: 'This reading was saved elsewhere since you opened it. Nothing was overwritten: compare with the current landmarks and save again.',
+  submit:
+    'This reading was saved elsewhere since you opened it. Nothing was submitted: look at the current landmarks and submit again.',
+  sign: 'This reading changed since you opened it. Nothing was signed: look at the current version and sign again.',
+  return:
+    'This reading changed since you opened it. Nothing was returned: look at the current version first.',
+  amend: 'This reading changed since you opened it.',
+}
+
+/**
+ * The reading's rules for the action (status, role, rater; see reading-status.ts), then the
+ * version the actor last saw: a stale one is a 409 carrying the reading as it now stands.
+ */
+export function assertCan(
+  action: ReadingAction,
+  reading: ReadingRecord,
+  actor: Actor,
+  version?: number,
+): void {
+  const refusal = readingActionRefusal(action, reading, actor.user)
+  if (refusal) throw new HttpError(refusal.status, refusal.code, refusal.message)
+  if (version !== undefined && reading.version !== version)
+    throw new ReadingConflictError(STALE_MESSAGES[action], toReadingDto(reading))
 }
 
 /** Counts landmarks added, moved and removed between two point sets. */
@@ -292,14 +301,15 @@ function changeCount(
 }
 
 /** Thrown inside a transaction whose guarded write matched no row; answered after rollback. */
-class GuardedWriteRefused extends Error {}
+export class GuardedWriteRefused extends Error {}
 
 /**
  * Runs a write transaction; when its guarded UPDATE is refused, answers the 409 from a fresh
  * read after the rollback (inside the transaction the snapshot predates the competing write).
  */
-async function guardedWrite<T>(
+export async function guardedWrite<T>(
   db: Db,
+  action: ReadingAction,
   id: number,
   actor: Actor,
   version: number,
@@ -308,14 +318,20 @@ async function guardedWrite<T>(
   try {
     return await db.transaction(work)
   } catch (error) {
-    if (error instanceof GuardedWriteRefused) return refusedWrite(db, id, actor, version)
+    if (error instanceof GuardedWriteRefused) return refusedWrite(db, action, id, actor, version)
     throw error
   }
 }
 
 /** After a refused guarded write, the 409 that says why (status or version). */
-async function refusedWrite(db: Db, id: number, actor: Actor, version: number): Promise<never> {
-  assertEditable(await reload(db, id), actor, version)
+async function refusedWrite(
+  db: Db,
+  action: ReadingAction,
+  id: number,
+  actor: Actor,
+  version: number,
+): Promise<never> {
+  assertCan(action, await reload(db, id), actor, version)
   throw new ReadingConflictError(
     'This reading was saved elsewhere since you opened it. Nothing was overwritten.',
     toReadingDto(await reload(db, id)),
@@ -329,7 +345,7 @@ export async function patchReading(
   patch: PatchReadingInput,
 ): Promise<Reading> {
   const { reading, image } = await loadVisibleReading(db, actor, id)
-  assertEditable(reading, actor, patch.version)
+  assertCan('edit', reading, actor, patch.version)
   if (patch.pairedPoints !== undefined && reading.template !== 'motion-pair') {
     throw badRequest('pairedPoints: apply to motion-pair readings only', {
       pairedPoints: ['pairedPoints: motion-pair readings only'],
@@ -341,7 +357,7 @@ export async function patchReading(
   const pairedPoints = patch.pairedPoints ?? reading.pairedLandmarks?.points ?? null
   if (pairedImage && patch.pairedPoints)
     checkPoints('pairedPoints', patch.pairedPoints, reading.template, reading.options, pairedImage)
-  return guardedWrite(db, id, actor, patch.version, async (trx) => {
+  return guardedWrite(db, 'edit', id, actor, patch.version, async (trx) => {
     const computation = await compute(trx, {
       readingId: id,
       template: reading.template,
@@ -377,7 +393,7 @@ export async function submitReading(
   version: number,
 ): Promise<Reading> {
   const { reading, image } = await loadVisibleReading(db, actor, id)
-  assertEditable(reading, actor, version)
+  assertCan('submit', reading, actor, version)
   const names = templateLandmarks(reading.template, reading.options).map((spec) => spec.name)
   const placed = names.filter((name) => name in reading.landmarks.points)
   if (placed.length === 0) {
@@ -388,7 +404,7 @@ export async function submitReading(
   }
   const pairedImage =
     reading.pairedImageId !== null ? await findImage(db, reading.pairedImageId) : undefined
-  return guardedWrite(db, id, actor, version, async (trx) => {
+  return guardedWrite(db, 'submit', id, actor, version, async (trx) => {
     // Recomputed with the films' current calibration, so the submitted results match what is shown.
     const computation = await compute(trx, {
       readingId: id,
@@ -399,15 +415,20 @@ export async function submitReading(
       points: reading.landmarks.points,
       pairedPoints: reading.pairedLandmarks?.points ?? null,
     })
-    if (!(await submitDraftReading(trx, id, version, computation))) throw new GuardedWriteRefused()
+    const reviewerId = await reviewerFor(trx, image.visitId, actor.user.id)
+    if (!(await submitDraftReading(trx, id, version, computation, reviewerId)))
+      throw new GuardedWriteRefused()
+    const again = reading.status === 'returned' ? ' again after its return' : ''
     await audit(
       trx,
       actor,
       'submit',
       'reading',
       id,
-      `Submitted ${reading.template} reading ${id} with ${placed.length} of ${names.length} landmarks placed`,
+      `Submitted ${reading.template} reading ${id}${again} with ${placed.length} of ${names.length} landmarks placed`,
     )
-    return toReadingDto(await reload(trx, id))
+    const submitted = await reload(trx, id)
+    await notifyReadingSubmitted(trx, submitted, actor)
+    return toReadingDto(submitted)
   })
 }

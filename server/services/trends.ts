@@ -8,6 +8,7 @@ import type { PatientTrends, TrendPoint, TrendSeries, TrendVisit } from '../../s
 import { audit, type Actor } from './audit'
 import { loadVisiblePatient } from './patients'
 import { sourceOf } from './plans-evidence'
+import { COUNTED_STATUSES } from '../../shared/readings/reading-status'
 
 /** Templates measured on one neutral film; a motion pair's values mix two positions. */
 const STATIC_TEMPLATES = new Set(['slip-grade', 'lumbar-alignment', 'construct-check'])
@@ -24,7 +25,8 @@ function segmentOf(
 
 /**
  * One visit's value: from its latest submitted or signed reading that measured it, else from its
- * latest draft (marked), else none. `readings` are one visit's, newest first.
+ * latest draft or returned reading (marked provisional), else none. `readings` are one visit's,
+ * newest first.
  */
 function visitPoint(
   readings: readonly PatientReadingSummary[],
@@ -33,7 +35,7 @@ function visitPoint(
 ): TrendPoint | null {
   for (const drafts of [false, true]) {
     for (const reading of readings) {
-      if ((reading.status === 'draft') !== drafts) continue
+      if (!COUNTED_STATUSES.includes(reading.status) !== drafts) continue
       const value = pick(reading)
       if (value !== null && value !== undefined) {
         return { ...sourceOf(reading, withCalibration), value, isDraft: drafts }

@@ -34,6 +34,9 @@ export interface IdentifiedPatient {
   studyCode: string
   osteoporosis: boolean
   notes: string | null
+  /** The surgeon who signs this patient's readings; null sends submissions to every surgeon. */
+  responsibleSurgeonId: number | null
+  responsibleSurgeonName: string | null
   visitCount: number
   lastVisitDate: string | null
   version: number
@@ -62,6 +65,7 @@ export interface PatientInput {
   sex: Sex
   osteoporosis?: boolean
   notes?: string | null
+  responsibleSurgeonId?: number | null
 }
 
 export type PatientPatch = Partial<PatientInput> & { version: number }

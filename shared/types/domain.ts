@@ -48,5 +48,9 @@ export const READING_TEMPLATES = [
 ] as const
 export type ReadingTemplate = (typeof READING_TEMPLATES)[number]
 
-export const READING_STATUSES = ['draft', 'submitted', 'signed'] as const
+/**
+ * draft → submitted → signed; submitted → returned (with the surgeon's comment) → submitted again;
+ * a signed reading is corrected by an amendment, after whose signature it is superseded.
+ */
+export const READING_STATUSES = ['draft', 'submitted', 'returned', 'signed', 'superseded'] as const
 export type ReadingStatus = (typeof READING_STATUSES)[number]

@@ -15,11 +15,15 @@ export const PERMISSIONS = {
   'image:upload': ['surgeon', 'fellow'],
   'reading:write': ['surgeon', 'fellow'],
   'reading:sign': ['surgeon'],
+  /** The thread beside a reading's results (researchers see none). */
+  'reading:comment': ['surgeon', 'fellow'],
   'measurement:compute': ['admin', 'surgeon', 'fellow', 'researcher'],
   'study:manage': ['researcher'],
   'user:manage': ['admin'],
   'audit:read': ['admin'],
   'settings:write': ['admin'],
+  /** The outbox's undelivered mail and, in development, the mails the local fake caught. */
+  'mail:read': ['admin'],
 } as const satisfies Record<string, readonly Role[]>
 
 export type Permission = keyof typeof PERMISSIONS

@@ -5,7 +5,7 @@ import type {
   SubsidenceResult,
   UncertaintyResult,
 } from './measurement'
-import type { ReadingStatus, ReadingTemplate, SpacingSource } from './domain'
+import type { ReadingStatus, ReadingTemplate, SpacingSource, VisitKind } from './domain'
 import type { TemplateOptions } from '../readings/templates'
 
 /** The spacing a reading was computed with, and where it came from (shown beside every mm). */
@@ -27,6 +27,18 @@ export interface ReadingResults {
   subsidence: Record<string, SubsidenceResult & { baselineReadingId: number }> | null
   /** The earliest baseline reading used, when there is one. */
   subsidenceBaselineReadingId: number | null
+  /**
+   * The site settings the server computed with (absent on results stored before they were
+   * recorded): a signed reading keeps the values it was signed with.
+   */
+  computedWith?: ResultSettings
+}
+
+/** Site settings that enter a reading's results. */
+export interface ResultSettings {
+  landmarkSigmaMm: number
+  subsidenceThresholdMm: number
+  instabilityCriterion: import('./measurement').InstabilityCriterionId
 }
 
 export interface Reading {
@@ -48,12 +60,102 @@ export interface Reading {
   status: ReadingStatus
   version: number
   blinded: boolean
+  /** The signed reading this one amends, and why (free text: null for researchers). */
   supersedesId: number | null
   supersedeReason: string | null
+  /** The amendment that replaced this reading once signed, or the one under way. */
+  supersededById: number | null
+  /** The surgeon the submission went to (the patient's responsible surgeon), if any. */
+  reviewerId: number | null
   submittedAt: string | null
   signedAt: string | null
   signedBy: number | null
+  signedByName: string | null
+  /** The latest return: who sent it back and why (the comment is null for researchers). */
+  returnedBy: number | null
+  returnedByName: string | null
+  returnedAt: string | null
+  returnComment: string | null
   /** Timestamps are null for researchers: they would date the visit. */
+  createdAt: string | null
+  updatedAt: string | null
+}
+
+export interface ReturnReadingInput {
+  version: number
+  comment: string
+}
+
+export interface AmendmentInput {
+  reason: string
+}
+
+export interface CommentInput {
+  text: string
+}
+
+/** One entry of a reading's thread: a remark, or the comment a surgeon returned it with. */
+export interface ReadingComment {
+  id: number
+  readingId: number
+  authorId: number
+  authorName: string
+  kind: 'comment' | 'return'
+  text: string
+  createdAt: string
+}
+
+export const READING_SORT_FIELDS = [
+  'submittedAt',
+  'signedAt',
+  'updatedAt',
+  'createdAt',
+  'id',
+] as const
+export type ReadingSortField = (typeof READING_SORT_FIELDS)[number]
+
+/** GET /api/readings: worklists and a patient's readings. */
+export interface ReadingQuery {
+  status?: ReadingStatus[]
+  /** `me`: readings the signed-in user made. */
+  rater?: 'me'
+  /** `me`: submitted readings waiting for the signed-in surgeon (sent to them, or to no one). */
+  awaiting?: 'me'
+  signedBy?: 'me'
+  returnedBy?: 'me'
+  patientId?: number
+  sort?: ReadingSortField
+  order?: 'asc' | 'desc'
+  offset?: number
+  limit?: number
+}
+
+/** A worklist row. Patient names, record numbers, dates and free text are null for researchers. */
+export interface ReadingSummary {
+  id: number
+  imageId: number
+  template: ReadingTemplate
+  options: TemplateOptions
+  status: ReadingStatus
+  version: number
+  raterId: number
+  raterName: string
+  patientId: number
+  studyCode: string
+  patientName: string | null
+  recordNumber: string | null
+  visitId: number
+  visitKind: VisitKind
+  visitDate: string | null
+  reviewerId: number | null
+  submittedAt: string | null
+  signedAt: string | null
+  signedByName: string | null
+  returnedAt: string | null
+  returnedByName: string | null
+  returnComment: string | null
+  supersedesId: number | null
+  supersededById: number | null
   createdAt: string | null
   updatedAt: string | null
 }

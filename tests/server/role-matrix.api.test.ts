@@ -6,8 +6,12 @@ import type { AppConfig } from '../../server/config'
 import type { Role } from '../../shared/types/domain'
 import { openTestDb, truncateAll } from '../support/test-db'
 import { buildTestApp, createUsersForEveryRole, type TestUser } from '../support/test-app'
-import { insertStudyWith, insertTestPatient, insertTestVisit } from '../support/fixtures'
-import { insertImage } from '../../server/db/images'
+import {
+  insertStudyWith,
+  insertTestFilm,
+  insertTestPatient,
+  insertTestVisit,
+} from '../support/fixtures'
 
 type Who = Role | 'anonymous'
 
@@ -17,6 +21,8 @@ interface RouteCase {
   body?: (ids: Ids, n: number) => object
   /** The version a versioned write sends; patches default to the patient's or visit's. */
   version?: (ids: Ids) => Promise<number>
+  /** A patch that carries no version (accounts). */
+  unversioned?: boolean
   expect: Record<Who, number>
 }
 
@@ -25,6 +31,10 @@ interface Ids {
   visitId: number
   imageId: number
   readingId: number
+  /** A second reading by the fellow, already submitted for signature. */
+  submittedReadingId: number
+  fellowId: number
+  submittedReadingVersion: () => Promise<number>
   patientVersion: () => Promise<number>
   visitVersion: () => Promise<number>
   readingVersion: () => Promise<number>
@@ -136,6 +146,44 @@ const ROUTES: RouteCase[] = [
     version: (ids) => ids.readingVersion(),
     expect: { anonymous: 401, admin: 403, surgeon: 403, fellow: 200, researcher: 403 },
   },
+  // Sign-off: the fixture's second reading is submitted, so the surgeon signs or returns it; the
+  // first is a draft, so an amendment of it is refused 409 even where the role may amend.
+  {
+    method: 'get',
+    path: () => '/api/readings?status=draft,submitted',
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 200 },
+  },
+  {
+    method: 'post',
+    path: (ids) => `/api/readings/${ids.submittedReadingId}/sign`,
+    body: () => ({}),
+    version: (ids) => ids.submittedReadingVersion(),
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'post',
+    path: (ids) => `/api/readings/${ids.submittedReadingId}/return`,
+    body: () => ({ comment: 'Check the S1 corners' }),
+    version: (ids) => ids.submittedReadingVersion(),
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'post',
+    path: (ids) => `/api/readings/${ids.readingId}/amendments`,
+    body: () => ({ reason: 'matrix' }),
+    expect: { anonymous: 401, admin: 403, surgeon: 409, fellow: 409, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: (ids) => `/api/readings/${ids.readingId}/comments`,
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 403 },
+  },
+  {
+    method: 'post',
+    path: (ids) => `/api/readings/${ids.readingId}/comments`,
+    body: () => ({ text: 'matrix' }),
+    expect: { anonymous: 401, admin: 403, surgeon: 201, fellow: 201, researcher: 403 },
+  },
   // Plan and trends: everyone who reads the patient; the plan is written by surgeons only.
   {
     method: 'get',
@@ -210,6 +258,71 @@ const ROUTES: RouteCase[] = [
   },
   {
     method: 'get',
+    path: () => '/api/users/surgeons',
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 403 },
+  },
+  {
+    method: 'patch',
+    path: (ids) => `/api/users/${ids.fellowId}`,
+    body: () => ({ displayName: 'Matrix fellow' }),
+    unversioned: true,
+    expect: { anonymous: 401, admin: 200, surgeon: 403, fellow: 403, researcher: 403 },
+  },
+  // Invitations: administrators only, except the link itself, which anyone may open.
+  {
+    method: 'get',
+    path: () => '/api/invitations',
+    expect: { anonymous: 401, admin: 200, surgeon: 403, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'post',
+    path: () => '/api/invitations',
+    body: (_ids, count) => ({
+      email: `matrix.${count}@test.example`,
+      displayName: 'Matrix',
+      role: 'fellow',
+    }),
+    expect: { anonymous: 401, admin: 201, surgeon: 403, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'delete',
+    path: () => '/api/invitations/999999',
+    expect: { anonymous: 401, admin: 404, surgeon: 403, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: () => `/api/invitations/${'A'.repeat(43)}`,
+    expect: { anonymous: 404, admin: 404, surgeon: 404, fellow: 404, researcher: 404 },
+  },
+  {
+    method: 'post',
+    path: () => '/api/auth/password-reset',
+    body: () => ({ email: 'someone@test.example' }),
+    expect: { anonymous: 202, admin: 202, surgeon: 202, fellow: 202, researcher: 202 },
+  },
+  {
+    method: 'get',
+    path: () => '/api/settings',
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 200, researcher: 200 },
+  },
+  {
+    method: 'put',
+    path: () => '/api/settings',
+    body: () => ({ values: {}, version: 0 }),
+    expect: { anonymous: 401, admin: 200, surgeon: 403, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: () => '/api/mail',
+    expect: { anonymous: 401, admin: 200, surgeon: 403, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: () => '/api/mail/undelivered',
+    expect: { anonymous: 401, admin: 200, surgeon: 403, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'get',
     path: () => '/api/audit-events',
     expect: { anonymous: 401, admin: 200, surgeon: 403, fellow: 403, researcher: 403 },
   },
@@ -240,31 +353,7 @@ beforeEach(async () => {
   const visitId = await insertTestVisit(db, patientId, users.fellow.id)
   await insertStudyWith(db, users.researcher.id, [patientId])
   // A film row without files (the reading routes never open the image) and a draft by the fellow.
-  const imageId = await insertImage(db, {
-    visitId,
-    view: 'lateral-neutral',
-    fileKind: 'png',
-    contentHash: 'f'.repeat(64),
-    originalPath: 'films/ff/matrix/original.png',
-    displayPath: 'films/ff/matrix/display.png',
-    previewPath: 'films/ff/matrix/preview.png',
-    thumbnailPath: 'films/ff/matrix/thumbnail.png',
-    fullDepthPath: 'films/ff/matrix/full-depth.png',
-    originalName: 'matrix.png',
-    sizeBytes: 1,
-    width: 100,
-    height: 100,
-    bitsStored: 8,
-    mmPerPixelRow: null,
-    mmPerPixelColumn: null,
-    spacingSource: 'none',
-    spacingNote: null,
-    windowCenter: null,
-    windowWidth: null,
-    acquiredAt: null,
-    dicomAttributes: null,
-    uploadedBy: users.fellow.id,
-  })
+  const imageId = await insertTestFilm(db, visitId, users.fellow.id)
   const reading = await request(app)
     .post(`/api/images/${imageId}/readings`)
     .set('Cookie', users.fellow.cookie)
@@ -272,11 +361,26 @@ beforeEach(async () => {
   if (reading.status !== 201)
     throw new Error(`could not start the matrix reading: ${JSON.stringify(reading.body)}`)
   const readingId = reading.body.id as number
+  const second = await request(app)
+    .post(`/api/images/${imageId}/readings`)
+    .set('Cookie', users.fellow.cookie)
+    .send({ template: 'slip-grade', options: { segment: 'L5-S1' }, points: { 'S1.ps': [40, 60] } })
+  const submitted = await request(app)
+    .post(`/api/readings/${second.body.id}/submit`)
+    .set('Cookie', users.fellow.cookie)
+    .send({ version: second.body.version })
+  if (submitted.status !== 200)
+    throw new Error(`could not submit the matrix reading: ${JSON.stringify(submitted.body)}`)
+  const submittedReadingId = second.body.id as number
   ids = {
     patientId,
     visitId,
     imageId,
     readingId,
+    submittedReadingId,
+    fellowId: users.fellow.id,
+    submittedReadingVersion: async () =>
+      (await db('readings').where({ id: submittedReadingId }).first()).version,
     patientVersion: async () => (await db('patients').where({ id: patientId }).first()).version,
     visitVersion: async () => (await db('visits').where({ id: visitId }).first()).version,
     readingVersion: async () => (await db('readings').where({ id: readingId }).first()).version,
@@ -286,12 +390,12 @@ beforeEach(async () => {
 
 describe('role × route matrix', () => {
   for (const route of ROUTES) {
-    it(`${route.method.toUpperCase()} ${route.path({ patientId: 1, visitId: 1, imageId: 1, readingId: 1 } as Ids).replace(/\/1(\/|$)/g, '/:id$1')} answers each role as designed`, async () => {
+    it(`${route.method.toUpperCase()} ${route.path({ patientId: 1, visitId: 1, imageId: 1, readingId: 1, submittedReadingId: 1, fellowId: 1 } as Ids).replace(/\/1(\/|$)/g, '/:id$1')} answers each role as designed`, async () => {
       const seen: Record<string, number> = {}
       for (const who of Object.keys(route.expect) as Who[]) {
         let body = route.body?.(ids, n)
         if (route.version && body) body = { ...body, version: await route.version(ids) }
-        else if (route.method === 'patch' && body) {
+        else if (route.method === 'patch' && body && !route.unversioned) {
           body = {
             ...body,
             version: route.path(ids).includes('/visits/')

@@ -2,6 +2,7 @@ import type { Db } from '../../server/db/knex'
 import { TABLES } from '../../server/db/tables'
 import { insertPatient } from '../../server/db/patients'
 import { insertVisit } from '../../server/db/visits'
+import { insertImage } from '../../server/db/images'
 import type { VisitKind } from '../../shared/types/domain'
 
 let counter = 0
@@ -64,4 +65,52 @@ export async function insertStudyWith(
   for (const patientId of patientIds)
     await db(TABLES.studyPatients).insert({ study_id: studyId, patient_id: patientId })
   return studyId as number
+}
+
+/**
+ * A film row without files, 200 × 200 px at 0.5 mm/px (the reading routes never open the image
+ * files; the engine needs only the size and the spacing).
+ */
+export async function insertTestFilm(db: Db, visitId: number, uploadedBy: number): Promise<number> {
+  counter += 1
+  const hash = counter.toString(16).padStart(64, '0')
+  return insertImage(db, {
+    visitId,
+    view: 'lateral-neutral',
+    fileKind: 'png',
+    contentHash: hash,
+    originalPath: `films/${hash.slice(0, 2)}/${hash}/original.png`,
+    displayPath: `films/${hash.slice(0, 2)}/${hash}/display.png`,
+    previewPath: `films/${hash.slice(0, 2)}/${hash}/preview.png`,
+    thumbnailPath: `films/${hash.slice(0, 2)}/${hash}/thumbnail.png`,
+    fullDepthPath: `films/${hash.slice(0, 2)}/${hash}/full-depth.png`,
+    originalName: 'test-film.png',
+    sizeBytes: 1,
+    width: 200,
+    height: 200,
+    bitsStored: 8,
+    mmPerPixelRow: 0.5,
+    mmPerPixelColumn: 0.5,
+    spacingSource: 'dicom-pixel-spacing',
+    spacingNote: null,
+    windowCenter: null,
+    windowWidth: null,
+    acquiredAt: null,
+    dicomAttributes: null,
+    uploadedBy,
+  })
+}
+
+/**
+ * Slip-grade landmarks at L5-S1: the S1 endplate 40 px deep along +x and L5 shifted 10 px
+ * forward, a 25 % Taillard slip (Butt & Saifuddin 2005, Clin Radiol 60:533).
+ */
+export const SLIP_25_PERCENT_POINTS: Record<string, [number, number]> = {
+  'L5.as': [90, 60],
+  'L5.ps': [50, 60],
+  'L5.pi': [50, 90],
+  'L5.ai': [90, 90],
+  'S1.as': [80, 100],
+  'S1.ps': [40, 100],
+  'S1.pw': [38, 130],
 }

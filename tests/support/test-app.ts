@@ -8,6 +8,7 @@ import { insertUser } from '../../server/db/users'
 import { signSessionToken } from '../../server/auth/session-token'
 import { SESSION_COOKIE } from '../../server/auth/session-token'
 import type { Role } from '../../shared/types/domain'
+import type { Clock } from '../../server/clock'
 
 export function testConfig(overrides: Record<string, string> = {}): AppConfig {
   return parseConfig({
@@ -22,13 +23,30 @@ export function testConfig(overrides: Record<string, string> = {}): AppConfig {
 export function buildTestApp(
   db: Db,
   overrides: Record<string, string> = {},
+  dependencies: { now?: Clock } = {},
 ): { app: Express; config: AppConfig } {
   const config = testConfig(overrides)
   // No built client in API tests: the app serves the API only.
   return {
-    app: createApp({ db, config, logger: pino({ level: 'silent' }), clientDir: '/nonexistent' }),
+    app: createApp({
+      db,
+      config,
+      logger: pino({ level: 'silent' }),
+      clientDir: '/nonexistent',
+      ...dependencies,
+    }),
     config,
   }
+}
+
+/** A clock that stands still until a test moves it (link expiry, mail retries). */
+export function movableClock(start = new Date()): Clock & { advanceMs(ms: number): void } {
+  let nowMs = start.getTime()
+  const clock = () => new Date(nowMs)
+  clock.advanceMs = (ms: number) => {
+    nowMs += ms
+  }
+  return clock
 }
 
 export interface TestUser {

@@ -2,6 +2,7 @@ import type { PlannedTreatment, ReadingStatus } from '@shared/types/domain'
 import type { PiLlBand, PlanCheckFlag, PlanCheckId } from '@shared/types/measurement'
 import type { MeasureSource } from '@shared/types/plans'
 import { TEMPLATE_LABELS } from '@shared/readings/templates'
+import { READING_STATUS_LABELS } from '@shared/readings/reading-status'
 import { SPACING_SOURCE_SHORT, VISIT_KIND_LABELS } from '@/utils/format'
 
 export const TREATMENT_LABELS: Record<PlannedTreatment, string> = {
@@ -35,18 +36,14 @@ export const CHECK_STATE_LABELS: Record<CheckState, string> = {
   unknown: 'Not recorded',
 }
 
-const STATUS_LABELS: Record<ReadingStatus, string> = {
-  draft: 'draft',
-  submitted: 'submitted',
-  signed: 'signed',
-}
+const statusText = (status: ReadingStatus) => READING_STATUS_LABELS[status].toLowerCase()
 
 /** "Reading 12 · Slip grade · submitted · Pre-op" (plus the mm scale when it matters). */
 export function sourceText(source: MeasureSource): string {
   const scale = source.calibrationSource
     ? ` · ${SPACING_SOURCE_SHORT[source.calibrationSource]}`
     : ''
-  return `Reading ${source.readingId} · ${TEMPLATE_LABELS[source.template]} · ${STATUS_LABELS[source.status]} · ${VISIT_KIND_LABELS[source.visitKind]}${scale}`
+  return `Reading ${source.readingId} · ${TEMPLATE_LABELS[source.template]} · ${statusText(source.status)} · ${VISIT_KIND_LABELS[source.visitKind]}${scale}`
 }
 
 export const BAND_LABELS: Record<PiLlBand, string> = {
