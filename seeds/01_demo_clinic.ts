@@ -2,6 +2,7 @@ import type { Knex } from 'knex'
 import bcrypt from 'bcryptjs'
 import { TABLES, TABLES_CHILDREN_FIRST } from '../server/db/tables'
 import { DEMO_PATIENTS, DEMO_STUDY, DEMO_USERS } from '../server/demo/demo-data'
+import { DEMO_RESPONSIBLE_SURGEONS } from '../server/demo/demo-sign-off'
 
 /** Replaces everything with the invented demo clinic. Refuses to run in production. */
 export async function seed(knex: Knex): Promise<void> {
@@ -36,6 +37,7 @@ export async function seed(knex: Knex): Promise<void> {
       study_code: patient.studyCode,
       osteoporosis: patient.osteoporosis ?? false,
       notes: patient.notes,
+      responsible_surgeon_id: userIds.get(DEMO_RESPONSIBLE_SURGEONS[patient.key] ?? '') ?? null,
       created_by: fellowId,
     })
     for (const visit of patient.visits) {

@@ -7,7 +7,7 @@ import { DEMO_PATIENTS } from '../server/demo/demo-data'
 import { DEMO_FILMS, demoFilmParams, type DemoFilm } from '../server/demo/demo-films'
 import { templateLandmarks } from '../shared/readings/templates'
 import type { PixelPoint } from '../shared/types/landmarks'
-import type { Actor } from '../server/services/audit'
+import { demoActor } from '../server/demo/demo-actor'
 
 /** A human hand: each landmark a little off the exact corner (about 1 px SD), reproducibly. */
 function asPlacedByHand(
@@ -25,14 +25,6 @@ function asPlacedByHand(
   return placed
 }
 
-async function actorFor(knex: Knex, email: string): Promise<Actor> {
-  const row = await knex(TABLES.users).where({ email }).first()
-  return {
-    user: { id: row.id, email: row.email, displayName: row.display_name, role: row.role },
-    ip: null,
-  }
-}
-
 function groundTruth(film: DemoFilm): Record<string, PixelPoint> {
   const patient = DEMO_PATIENTS.find((candidate) => candidate.key === film.patientKey)!
   return phantomGroundTruth(demoFilmParams(film, patient, patient.visits[film.visitIndex]!))
@@ -47,8 +39,8 @@ export async function seed(knex: Knex): Promise<void> {
   if (process.env.NODE_ENV === 'production') throw new Error('Demo seeds never run in production.')
   if (process.env.NODE_ENV === 'test' && process.env.ENDPLATE_SEED_FILMS !== '1') return
   const fellows = [
-    await actorFor(knex, 'priya.lindqvist@endplate.example'),
-    await actorFor(knex, 'jonah.ferris@endplate.example'),
+    await demoActor(knex, 'priya.lindqvist@endplate.example'),
+    await demoActor(knex, 'jonah.ferris@endplate.example'),
   ]
 
   for (const [index, film] of DEMO_FILMS.entries()) {
