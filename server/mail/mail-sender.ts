@@ -52,7 +52,7 @@ export function retryDelayMs(failures: number, firstRetryMs: number): number {
 
 /** The text that leaves: the message, its link under PUBLIC_URL, and a closing line. */
 export function composeMailText(text: string, linkPath: string | null, publicUrl: string): string {
-  const link = linkPath === null ? '' : `\n\nOpen in Endplate: ${publicUrl}${linkPath}\n`
+  const link = linkPath === null ? '' : `\n\nOpen in Endplate: ${publicUrl}${linkPath}`
   return `${text.trimEnd()}${link}\n\n--\nEndplate, ${publicUrl}\nMails from Endplate name no patient: sign in to see who a reading belongs to.\n`
 }
 

@@ -6,7 +6,13 @@ import type {
   MotionPairResult,
   UncertaintyResult,
 } from '@shared/types/measurement'
-import { computeMeasurements, computeMotionPair, computeUncertainty } from '@shared/measurement'
+import {
+  computeMeasurements,
+  computeMotionPair,
+  computeUncertainty,
+  DEFAULT_SIGMA_MM,
+  DEFAULT_SIGMA_PX,
+} from '@shared/measurement'
 
 export interface LiveFilmResults {
   measurements: MeasurementResult | null
@@ -46,13 +52,15 @@ export const DRAG_UNCERTAINTY_INTERVAL_MS = 150
  * Results recomputed in the browser from the landmarks with the shared engine, on every change:
  * the measurements at once (well under a millisecond), the uncertainty (about 2 × the number of
  * coordinates engine runs) at once when a landmark is placed or dropped, and every
- * DRAG_UNCERTAINTY_INTERVAL_MS during a drag, so dragging stays smooth. The server's stored
- * results remain the record.
+ * DRAG_UNCERTAINTY_INTERVAL_MS during a drag, so dragging stays smooth. The intervals use the
+ * site's landmark σ in mm (the server's too; 3 px on uncalibrated films, as on the server). The
+ * server's stored results remain the record.
  */
 export function useLiveResults(
   points: Ref<Record<string, PixelPoint>>,
   film: Ref<ImageRecord | null>,
   dragging: Ref<boolean>,
+  sigmaMm: Ref<number> = ref(DEFAULT_SIGMA_MM),
 ) {
   const doc = computed(() => documentOf(points.value, film.value))
   const measured = computed(() => measure(doc.value))
@@ -68,7 +76,10 @@ export function useLiveResults(
       return
     }
     try {
-      uncertainty.value = computeUncertainty(doc.value)
+      uncertainty.value = computeUncertainty(doc.value, {
+        sigmaMm: sigmaMm.value,
+        sigmaPx: DEFAULT_SIGMA_PX,
+      })
     } catch {
       uncertainty.value = null
     }
@@ -76,7 +87,7 @@ export function useLiveResults(
 
   // During a drag the last intervals stay on screen, marked stale, until the next refresh.
   watch(
-    [doc, dragging],
+    [doc, dragging, sigmaMm],
     () => {
       if (!dragging.value) {
         if (timer !== null) clearTimeout(timer)

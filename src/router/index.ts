@@ -10,7 +10,17 @@ import SignInView from '@/views/SignInView.vue'
 
 /** Every route name; navigation goes by name so a typo does not compile. */
 export type RouteName =
-  'sign-in' | 'patients' | 'patient' | 'reading-workspace' | 'administration' | 'not-found'
+  | 'sign-in'
+  | 'worklist'
+  | 'patients'
+  | 'patient'
+  | 'reading-workspace'
+  | 'administration'
+  | 'mail'
+  | 'invitation'
+  | 'password-reset-request'
+  | 'password-reset'
+  | 'not-found'
 
 declare module 'vue-router' {
   interface RouteMeta {
@@ -29,7 +39,32 @@ const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
     component: SignInView,
     meta: { public: true, title: 'Sign in' },
   },
-  { path: '/', redirect: () => ({ name: 'patients' }) },
+  {
+    path: '/',
+    name: 'worklist',
+    component: () => import('@/views/WorklistView.vue'),
+    meta: { title: 'Worklist' },
+  },
+  {
+    path: '/invitation/:token',
+    name: 'invitation',
+    component: () => import('@/views/InvitationView.vue'),
+    props: true,
+    meta: { public: true, title: 'Invitation' },
+  },
+  {
+    path: '/password-reset',
+    name: 'password-reset-request',
+    component: () => import('@/views/PasswordResetRequestView.vue'),
+    meta: { public: true, title: 'Forgotten password' },
+  },
+  {
+    path: '/password-reset/:token',
+    name: 'password-reset',
+    component: () => import('@/views/PasswordResetView.vue'),
+    props: true,
+    meta: { public: true, title: 'New password' },
+  },
   {
     path: '/patients',
     name: 'patients',
@@ -57,6 +92,12 @@ const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
     meta: { permission: 'user:manage', title: 'Administration' },
   },
   {
+    path: '/mail',
+    name: 'mail',
+    component: () => import('@/views/MailView.vue'),
+    meta: { permission: 'mail:read', title: 'Mail' },
+  },
+  {
     path: '/:pathMatch(.*)*',
     name: 'not-found',
     component: () => import('@/views/NotFoundView.vue'),
@@ -66,11 +107,9 @@ const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
 
 export const router = createRouter({ history: createWebHistory(), routes })
 
-/** Where a role lands after sign-in: the first screen it may use. */
-export function homeFor(can: (permission: Permission) => boolean): RouteLocationRaw {
-  if (can('patient:read')) return { name: 'patients' }
-  if (can('user:manage')) return { name: 'administration' }
-  return { name: 'not-found' }
+/** Where a role lands after sign-in: every role's first screen is its worklist. */
+export function homeFor(_can: (permission: Permission) => boolean): RouteLocationRaw {
+  return { name: 'worklist' }
 }
 
 router.beforeEach(async (to) => {

@@ -1,10 +1,20 @@
 import { computed, ref } from 'vue'
 import { defineStore } from 'pinia'
-import type { ImageRecord, Visit } from '@shared/types/api'
+import type { ImageRecord, SessionUser, Visit } from '@shared/types/api'
 import type { PixelPoint } from '@shared/types/landmarks'
-import type { Reading } from '@shared/types/readings'
+import type { Reading, ReadingComment } from '@shared/types/readings'
 import { templateLandmarks, templateNeedsPairedImage } from '@shared/readings/templates'
-import { getReading, patchReading, submitReading } from '@/api/readings'
+import { readingActionRefusal, type ReadingAction } from '@shared/readings/reading-status'
+import {
+  addReadingComment,
+  amendReading,
+  getReading,
+  listReadingComments,
+  patchReading,
+  returnReading,
+  signReading,
+  submitReading,
+} from '@/api/readings'
 import { getVisit } from '@/api/visits'
 import { calibrateImage, getImage } from '@/api/images'
 import { ApiError } from '@/api/http'
@@ -88,11 +98,26 @@ export const useReadingsStore = defineStore('readings', () => {
   const isPair = computed(() =>
     reading.value ? templateNeedsPairedImage(reading.value.template) : false,
   )
-  /** False for a role that may not write readings; the server enforces it as well. */
-  const writable = ref(true)
-  const readOnly = computed(
-    () => !writable.value || reading.value === null || reading.value.status !== 'draft',
-  )
+  /** Who looks at the reading: what they may do follows the shared rules the server enforces. */
+  const viewer = ref<Pick<SessionUser, 'id' | 'role'> | null>(null)
+  function allows(action: ReadingAction): boolean {
+    return (
+      reading.value !== null &&
+      viewer.value !== null &&
+      readingActionRefusal(action, reading.value, viewer.value) === null
+    )
+  }
+  /** Only the rater changes landmarks, and only while the reading is a draft or returned. */
+  const readOnly = computed(() => !allows('edit'))
+  const canSign = computed(() => allows('sign'))
+  const canReturn = computed(() => allows('return'))
+  const canAmend = computed(() => allows('amend'))
+  /** The reading's thread, oldest first (null until loaded, and for roles that see none). */
+  const comments = ref<ReadingComment[] | null>(null)
+  /** For an amended reading: the amendment that replaces (or will replace) it. */
+  const amendment = ref<Reading | null>(null)
+  /** For an amendment: the signed reading it amends. */
+  const amended = ref<Reading | null>(null)
   const sidePoints = (side: FilmSide) => (side === 'primary' ? points : pairedPoints)
   const activePoints = computed(() => sidePoints(activeSide.value).value)
   /** The first landmark of the checklist not yet placed on the active film. */
@@ -146,6 +171,7 @@ export const useReadingsStore = defineStore('readings', () => {
       adopt(loaded)
       film.value = image
       pairedFilm.value = paired
+      void loadRelated(loaded)
       // The patient context is a courtesy: it arrives when it arrives, and the film does not wait.
       void getVisit(image.visitId)
         .then((found) => {
@@ -158,6 +184,65 @@ export const useReadingsStore = defineStore('readings', () => {
           ? 'This reading does not exist or is not in your studies.'
           : messageOf(caught)
     }
+  }
+
+  /** The other end of an amendment, so both readings say what replaced what, and why. */
+  async function loadRelated(loaded: Reading): Promise<void> {
+    const [next, previous] = await Promise.all([
+      loaded.supersededById === null ? null : getReading(loaded.supersededById).catch(() => null),
+      loaded.supersedesId === null ? null : getReading(loaded.supersedesId).catch(() => null),
+    ])
+    if (reading.value?.id !== loaded.id) return
+    amendment.value = next
+    amended.value = previous
+  }
+
+  async function loadComments(): Promise<void> {
+    const id = reading.value?.id
+    if (id === undefined) return
+    const loaded = await listReadingComments(id)
+    if (reading.value?.id === id) comments.value = loaded
+  }
+
+  async function addComment(text: string): Promise<void> {
+    const id = reading.value?.id
+    if (id === undefined) return
+    const created = await addReadingComment(id, { text })
+    if (reading.value?.id === id) comments.value = [...(comments.value ?? []), created]
+  }
+
+  /**
+   * Sign-off calls: on success the reading is the server's answer; a 409 (changed meanwhile)
+   * loads the current reading before the message reaches the caller.
+   */
+  async function review(call: (current: Reading) => Promise<Reading>): Promise<void> {
+    const current = reading.value
+    if (!current) return
+    try {
+      const updated = await call(current)
+      adopt(updated)
+      void loadRelated(updated)
+    } catch (caught) {
+      if (caught instanceof ApiError && caught.status === 409) {
+        const fresh = await getReading(current.id).catch(() => null)
+        if (fresh && reading.value?.id === current.id) adopt(fresh)
+      }
+      throw caught
+    }
+  }
+
+  const sign = () => review((current) => signReading(current.id, current.version))
+
+  async function returnToRater(comment: string): Promise<void> {
+    await review((current) => returnReading(current.id, { version: current.version, comment }))
+    await loadComments().catch(() => undefined)
+  }
+
+  /** Starts an amendment of the signed reading; answers the new draft's id. */
+  async function amend(reason: string): Promise<number | null> {
+    const current = reading.value
+    if (!current) return null
+    return (await amendReading(current.id, { reason })).id
   }
 
   function snapshot(): Snapshot {
@@ -463,6 +548,9 @@ export const useReadingsStore = defineStore('readings', () => {
     retryAttempt = 0
     dragStart = null
     dragging.value = false
+    comments.value = null
+    amendment.value = null
+    amended.value = null
   }
 
   return {
@@ -485,7 +573,13 @@ export const useReadingsStore = defineStore('readings', () => {
     lastSavedAt,
     dirty,
     dragging,
-    writable,
+    viewer,
+    canSign,
+    canReturn,
+    canAmend,
+    comments,
+    amendment,
+    amended,
     specs,
     isPair,
     readOnly,
@@ -513,6 +607,11 @@ export const useReadingsStore = defineStore('readings', () => {
     loadTheirs,
     overwriteTheirs,
     submit,
+    sign,
+    returnToRater,
+    amend,
+    loadComments,
+    addComment,
     calibrate,
     reset,
   }

@@ -33,6 +33,12 @@ export const useSessionStore = defineStore('session', () => {
     return user.value
   }
 
+  /** A sign-in that happened elsewhere (accepting an invitation signs the new account in). */
+  function adopt(signedIn: SessionUser): void {
+    user.value = signedIn
+    checked.value = true
+  }
+
   async function logout(): Promise<void> {
     try {
       await signOut()
@@ -46,5 +52,5 @@ export const useSessionStore = defineStore('session', () => {
     user.value = null
   }
 
-  return { user, checked, isSignedIn, can, restore, login, logout, forget }
+  return { user, checked, isSignedIn, can, restore, login, adopt, logout, forget }
 })

@@ -65,3 +65,15 @@ export function formatAgeYears(age: number | null, deidentified = false): string
   if (age === null) return '—'
   return deidentified && age >= 90 ? '90+ y' : `${age} y`
 }
+
+/** How long ago, roughly: "just now", "40 min", "5 h", "3 days" (the age of a request). */
+export function formatElapsed(iso: string | null, nowMs = Date.now()): string {
+  if (!iso) return '—'
+  const minutes = Math.max(0, Math.floor((nowMs - Date.parse(iso)) / 60_000))
+  if (minutes < 1) return 'just now'
+  if (minutes < 60) return `${minutes} min`
+  const hours = Math.floor(minutes / 60)
+  if (hours < 48) return `${hours} h`
+  const days = Math.floor(hours / 24)
+  return `${days} days`
+}

@@ -6,6 +6,7 @@ import { openTestDb, truncateAll } from '../support/test-db'
 import {
   launchBrowser,
   screenshotPath,
+  openPatientsFromMenu,
   signInThroughForm,
   startAppServer,
 } from '../support/browser'
@@ -36,7 +37,7 @@ async function signInAsFellow(page: Page) {
     server.url,
     DEMO_USERS.find((user) => user.role === 'fellow')!,
   )
-  await page.getByRole('heading', { name: 'Patients' }).waitFor()
+  await openPatientsFromMenu(page)
 }
 
 describe('Films on a visit in Chromium', () => {

@@ -6,6 +6,7 @@ import { openTestDb, truncateAll } from '../support/test-db'
 import {
   launchBrowser,
   screenshotPath,
+  openPatientsFromMenu,
   signInThroughForm,
   startAppServer,
 } from '../support/browser'
@@ -41,8 +42,8 @@ describe('Patients screen in Chromium', () => {
   it('lets a fellow create a patient, find it by search and add a visit', async () => {
     const page = await browser.newPage()
     await signIn(page, 'fellow')
+    await openPatientsFromMenu(page)
     await expect.poll(() => page.url()).toContain('/patients')
-    await page.getByRole('heading', { name: 'Patients' }).waitFor()
     await page.getByText('Halvorsen, Ingrid').waitFor()
     await page.screenshot({ path: screenshotPath('patients-fellow'), fullPage: true })
 
@@ -80,6 +81,7 @@ describe('Patients screen in Chromium', () => {
   it('shows a form error without saving when a required field is empty', async () => {
     const page = await browser.newPage()
     await signIn(page, 'fellow')
+    await openPatientsFromMenu(page)
     await page.getByRole('button', { name: 'New patient' }).click()
     const dialog = page.getByRole('dialog', { name: 'New patient' })
     await dialog.getByRole('button', { name: 'Add patient' }).click()
@@ -92,7 +94,7 @@ describe('Patients screen in Chromium', () => {
   it('shows a researcher study codes and ages only', async () => {
     const page = await browser.newPage()
     await signIn(page, 'researcher')
-    await page.getByRole('heading', { name: 'Patients' }).waitFor()
+    await openPatientsFromMenu(page)
     await page.getByText('EP-4K7Q2M').waitFor()
     const text = await page.locator('body').innerText()
     expect(text).not.toContain('Halvorsen')
@@ -102,11 +104,13 @@ describe('Patients screen in Chromium', () => {
     await page.close()
   })
 
-  it('sends an administrator to the administration screen with the audit trail', async () => {
+  it('shows an administrator the administration screen with the audit trail, and no patients', async () => {
     const page = await browser.newPage()
     await signIn(page, 'admin')
+    await page.getByRole('heading', { name: 'Worklist' }).waitFor()
+    await page.getByRole('link', { name: 'Administration' }).click()
     await page.getByRole('heading', { name: 'Administration' }).waitFor()
-    await page.getByRole('heading', { name: 'Audit trail' }).waitFor()
+    await page.getByRole('tab', { name: 'Audit trail' }).click()
     await page.getByText('Signed in').first().waitFor()
     expect(await page.getByRole('link', { name: 'Patients' }).count()).toBe(0)
     await page.screenshot({ path: screenshotPath('administration'), fullPage: true })

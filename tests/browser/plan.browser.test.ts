@@ -13,6 +13,7 @@ import { testConfig } from '../support/test-app'
 import {
   launchBrowser,
   screenshotPath,
+  openPatientsFromMenu,
   signInThroughForm,
   startAppServer,
 } from '../support/browser'
@@ -96,7 +97,7 @@ afterAll(async () => {
 
 async function signInAsSurgeon(page: Page) {
   await signInThroughForm(browser, page, server.url, surgeon)
-  await page.getByRole('heading', { name: 'Patients' }).waitFor()
+  await openPatientsFromMenu(page)
 }
 
 async function openHybridAsSurgeon(page: Page) {

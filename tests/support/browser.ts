@@ -59,3 +59,13 @@ export async function signInThroughForm(
   await page.locator('#password').fill(user.password)
   await page.getByRole('button', { name: 'Sign in' }).click()
 }
+
+/** From the worklist every role lands on, the Patients screen through the main menu. */
+export async function openPatientsFromMenu(page: Page): Promise<void> {
+  await page.getByRole('heading', { name: 'Worklist' }).waitFor()
+  await page
+    .getByRole('navigation', { name: 'Main' })
+    .getByRole('link', { name: 'Patients' })
+    .click()
+  await page.getByRole('heading', { name: 'Patients' }).waitFor()
+}

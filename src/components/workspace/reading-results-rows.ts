@@ -1,6 +1,7 @@
 import type { SpacingSource } from '@shared/types/domain'
 import type {
   DiscHeights,
+  InstabilityCriterionId,
   IntervalTree,
   MeasurementResult,
   MeyerdingUncertainty,
@@ -450,6 +451,7 @@ function motionSection(
   segmentName: SegmentName,
   motion: MotionSegmentResult | null | undefined,
   spacingSource: SpacingSource,
+  siteCriterion: InstabilityCriterionId | undefined,
 ): ResultSection {
   const calibration = SPACING_SOURCE_SHORT[spacingSource]
   const rows = [
@@ -476,7 +478,11 @@ function motionSection(
       TRANSLATION_DEFINITION,
     ),
   ]
-  const flags: ResultFlag[] = (motion?.criteria ?? []).map((criterion) => {
+  // The criterion the site goes by comes first; the other published ones follow for context.
+  const criteria = [...(motion?.criteria ?? [])].sort(
+    (a, b) => Number(b.id === siteCriterion) - Number(a.id === siteCriterion),
+  )
+  const flags: ResultFlag[] = criteria.map((criterion) => {
     const limits = [
       criterion.translationThresholdMm !== null ? `> ${criterion.translationThresholdMm} mm` : null,
       criterion.translationThresholdPercent !== null
@@ -492,10 +498,16 @@ function motionSection(
         : criterion.flagged === false
           ? 'below the criterion'
           : 'not assessable (calibration or landmarks missing)'
+    const role =
+      siteCriterion === undefined
+        ? ''
+        : criterion.id === siteCriterion
+          ? 'Site criterion: '
+          : 'Also published: '
     return {
       id: criterion.id,
       tone: criterion.flagged === true ? 'warn' : 'info',
-      text: `${segmentName} ${verdict} (${limits}).`,
+      text: `${role}${segmentName} ${verdict} (${limits}).`,
       source: criterion.source,
     }
   })
@@ -562,6 +574,8 @@ export interface WorkspaceResultsInput {
   primary: FilmResults
   paired: FilmResults | null
   motion: Partial<Record<SegmentName, MotionSegmentResult>> | null
+  /** The instability criterion of the site settings, shown first on a motion pair. */
+  instabilityCriterion?: InstabilityCriterionId
   /** Construct check: the server's subsidence results of the last saved draft. */
   subsidence?: {
     results: Record<string, SubsidenceResult> | null
@@ -594,7 +608,12 @@ export function workspaceResultSections(input: WorkspaceResultsInput): ResultSec
       ]
     case 'motion-pair':
       return [
-        motionSection(segment, input.motion?.[segment], input.primary.spacingSource),
+        motionSection(
+          segment,
+          input.motion?.[segment],
+          input.primary.spacingSource,
+          input.instabilityCriterion,
+        ),
         segmentSection(segment, input.primary, `Flexion film ${segment}`, { discs: false }),
         ...(input.paired
           ? [segmentSection(segment, input.paired, `Extension film ${segment}`, { discs: false })]

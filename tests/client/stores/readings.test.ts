@@ -79,11 +79,16 @@ function acceptPatches() {
   })
 }
 
-async function loadedStore(reading = readingFixture()) {
+/** The fixture's rater (id 1, a fellow) looks at it unless another viewer is named. */
+async function loadedStore(
+  reading = readingFixture(),
+  viewer: { id: number; role: 'fellow' | 'surgeon' | 'researcher' } = { id: 1, role: 'fellow' },
+) {
   api.getReading.mockResolvedValue(reading)
   visits.getVisit.mockRejectedValue(new Error('not needed'))
   images.getImage.mockResolvedValue(film)
   const store = useReadingsStore()
+  store.viewer = viewer
   await store.load(reading.id)
   return store
 }
@@ -159,6 +164,62 @@ describe('readings store: placing and history', () => {
     store.placePoint('L5.as', [1, 1])
     expect(store.points).toEqual({})
     expect(store.readOnly).toBe(true)
+  })
+})
+
+describe('readings store: sign-off', () => {
+  it("shows another rater's draft read-only, and a returned reading editable by its rater", async () => {
+    const surgeonView = await loadedStore(readingFixture(), { id: 2, role: 'surgeon' })
+    surgeonView.placePoint('L5.as', [1, 1])
+    expect(surgeonView.points).toEqual({})
+    expect(surgeonView.readOnly).toBe(true)
+    setActivePinia(createPinia())
+    const returned = await loadedStore(readingFixture({ status: 'returned' }))
+    returned.placePoint('L5.as', [1, 1])
+    expect(returned.points).toEqual({ 'L5.as': [1, 1] })
+  })
+
+  it('offers a surgeon Sign and Return on a submitted reading, and a signed one for amendment', async () => {
+    const submitted = await loadedStore(readingFixture({ status: 'submitted' }), {
+      id: 2,
+      role: 'surgeon',
+    })
+    expect([submitted.canSign, submitted.canReturn, submitted.canAmend]).toEqual([
+      true,
+      true,
+      false,
+    ])
+    setActivePinia(createPinia())
+    const researcher = await loadedStore(readingFixture({ status: 'signed' }), {
+      id: 3,
+      role: 'researcher',
+    })
+    expect([researcher.canSign, researcher.canAmend]).toEqual([false, false])
+    setActivePinia(createPinia())
+    const signed = await loadedStore(readingFixture({ status: 'signed' }))
+    expect(signed.canAmend).toBe(true)
+  })
+
+  it("takes the server's signed reading, and loads the current one when the signature meets a 409", async () => {
+    const store = await loadedStore(readingFixture({ status: 'submitted', version: 2 }), {
+      id: 2,
+      role: 'surgeon',
+    })
+    api.signReading.mockResolvedValueOnce(readingFixture({ status: 'signed', version: 3 }))
+    await store.sign()
+    expect(api.signReading).toHaveBeenCalledWith(7, 2)
+    expect(store.reading?.status).toBe('signed')
+
+    setActivePinia(createPinia())
+    const stale = await loadedStore(readingFixture({ status: 'submitted', version: 2 }), {
+      id: 2,
+      role: 'surgeon',
+    })
+    api.signReading.mockRejectedValueOnce(new ApiError(409, 'conflict', 'changed'))
+    api.getReading.mockResolvedValueOnce(readingFixture({ status: 'returned', version: 3 }))
+    await expect(stale.sign()).rejects.toThrow('changed')
+    expect(stale.reading?.status).toBe('returned')
+    expect(stale.canSign).toBe(false)
   })
 })
 
