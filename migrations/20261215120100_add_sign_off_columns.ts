@@ -32,8 +32,13 @@ export async function down(knex: Knex): Promise<void> {
   await knex.schema.alterTable(TABLES.comments, (table) => {
     table.dropColumn('kind')
   })
+  // MariaDB lets the rater foreign key use the composite index; it gets its own one back.
+  await knex.schema.alterTable(TABLES.readings, (table) => {
+    table.dropForeign(['rater_id'])
+  })
   await knex.schema.alterTable(TABLES.readings, (table) => {
     table.dropIndex(['rater_id', 'status'])
+    table.foreign('rater_id').references('id').inTable(TABLES.users).onDelete('RESTRICT')
     table.dropForeign(['returned_by'])
     table.dropColumn('returned_by')
     table.dropColumn('returned_at')

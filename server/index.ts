@@ -10,14 +10,18 @@ import { createMailSender } from './mail/mail-sender'
  * Starts the HTTP server (the only module that listens), the outbox's mail sender and, where
  * MAIL_FAKE is on, the local fake mail server it delivers to. Resolves once all are listening.
  */
-export async function startServer(): Promise<{ close(): Promise<void>; url: string }> {
+export async function startServer(): Promise<{
+  close(): Promise<void>
+  url: string
+  /** Where the local mail catcher listens; null when MAIL_FAKE is off or it could not start. */
+  mailCatcherPort: number | null
+}> {
   const logger = createLogger(config.LOG_LEVEL)
   const db = createDb(config.DB_NAME)
   let catcher: MailCatcher | null = null
   if (config.MAIL_FAKE) {
     try {
       catcher = await startMailCatcher({ db, logger, port: config.SMTP_PORT })
-      logger.info(`local mail catcher on 127.0.0.1:${catcher.port} (see the Mail screen)`)
     } catch (error) {
       // Mail then waits in the outbox (retried, shown to the administrator); the app still runs.
       logger.error(
@@ -42,6 +46,7 @@ export async function startServer(): Promise<{ close(): Promise<void>; url: stri
   const url = `http://${config.HOST}:${config.PORT}`
   return {
     url,
+    mailCatcherPort: catcher?.port ?? null,
     async close() {
       const closed = new Promise<void>((resolveClose) => server.close(() => resolveClose()))
       // Idle keep-alive connections would otherwise hold close() open for seconds.

@@ -16,7 +16,7 @@ const { printWelcome } = await import('./welcome')
 
 const database = await bringUpDatabase(config, [config.DB_NAME, config.DB_TEST_NAME])
 let stopping = false
-let running: { close(): Promise<void>; url: string } | undefined
+let running: Awaited<ReturnType<typeof import('../index').startServer>> | undefined
 /**
  * Ctrl-C reaches npm, tsx and this process at once, so the signal can arrive twice: the first
  * starts the shutdown, later ones are ignored until MariaDB has been stopped cleanly.
@@ -41,7 +41,7 @@ try {
   await run('npx', ['vite', 'build', '--logLevel', 'warn'])
   const { startServer } = await import('../index')
   running = await startServer()
-  printWelcome(running.url)
+  printWelcome(running.url, running.mailCatcherPort)
 } catch (error) {
   console.error(error instanceof Error ? error.message : error)
   await shutdown(1)

@@ -1,7 +1,8 @@
 import { DEMO_USERS } from '../demo/demo-data'
 import { ROLE_LABELS } from '../../shared/types/permissions'
 
-export function printWelcome(url: string): void {
+/** `mailCatcherPort`: where the local mail catcher listens, or null when it does not run. */
+export function printWelcome(url: string, mailCatcherPort: number | null = null): void {
   const rows = DEMO_USERS.map(
     (user) => `  ${ROLE_LABELS[user.role].padEnd(14)} ${user.email.padEnd(36)} ${user.password}`,
   )
@@ -13,6 +14,12 @@ export function printWelcome(url: string): void {
       'Demo sign-ins (invented staff):',
       ...rows,
       '',
+      ...(mailCatcherPort !== null
+        ? [
+            `Mail is caught locally on 127.0.0.1:${mailCatcherPort}; administrators read it on the Mail screen.`,
+            '',
+          ]
+        : []),
       'Decision support only: verify landmarks and calibration; defer to local protocols.',
       'Press Ctrl-C to stop Endplate and its database.',
       '',
