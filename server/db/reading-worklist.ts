@@ -3,38 +3,18 @@ import { TABLES } from './tables'
 import { parseJson, toIsoDate, toIsoDateTimeOrNull } from './rows'
 import { SUPERSEDED_BY } from './readings'
 import type { ReadingStatus, ReadingTemplate, VisitKind } from '../../shared/types/domain'
-import type { ReadingSortField } from '../../shared/types/readings'
+import type { ReadingSortField, ReadingSummary } from '../../shared/types/readings'
 import type { TemplateOptions } from '../../shared/readings/templates'
 
-/** A worklist row as stored, identified fields included (the service decides who sees them). */
-export interface ReadingListRecord {
-  id: number
-  imageId: number
-  template: ReadingTemplate
-  options: TemplateOptions
-  status: ReadingStatus
-  version: number
-  raterId: number
-  raterName: string
-  patientId: number
-  studyCode: string
+/** A worklist row as stored, the patient's names apart (the service decides who sees them). */
+export interface ReadingListRecord extends Omit<
+  ReadingSummary,
+  'patientName' | 'recordNumber' | 'visitDate'
+> {
   familyName: string
   givenName: string
   recordNumber: string
-  visitId: number
-  visitKind: VisitKind
   visitDate: string
-  reviewerId: number | null
-  submittedAt: string | null
-  signedAt: string | null
-  signedByName: string | null
-  returnedAt: string | null
-  returnedByName: string | null
-  returnComment: string | null
-  supersedesId: number | null
-  supersededById: number | null
-  createdAt: string | null
-  updatedAt: string | null
 }
 
 export interface ReadingListFilter {

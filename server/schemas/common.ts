@@ -30,3 +30,18 @@ export const version = z
 
 export const trimmed = (max: number) =>
   z.string().trim().max(max, `must be at most ${max} characters`)
+
+/** Paging of a list, as the query string carries it. */
+export const pagingQuery = {
+  offset: z.coerce
+    .number({ error: 'must be a number' })
+    .int()
+    .min(0, 'cannot be negative')
+    .optional(),
+  limit: z.coerce
+    .number({ error: 'must be a number' })
+    .int()
+    .min(1, 'must be at least 1')
+    .max(100, 'must be at most 100')
+    .optional(),
+}

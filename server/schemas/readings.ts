@@ -15,7 +15,7 @@ import {
   type ReturnReadingInput,
 } from '../../shared/types/readings'
 import type { TemplateOptions } from '../../shared/readings/templates'
-import { version } from './common'
+import { pagingQuery, version } from './common'
 
 const coordinate = z
   .number({ error: 'must be a number of pixels' })
@@ -178,15 +178,5 @@ export const readingQuery = z.object({
     .enum(READING_SORT_FIELDS, { error: `must be one of ${READING_SORT_FIELDS.join(', ')}` })
     .optional(),
   order: z.enum(['asc', 'desc'], { error: 'must be asc or desc' }).optional(),
-  offset: z.coerce
-    .number({ error: 'must be a number' })
-    .int()
-    .min(0, 'cannot be negative')
-    .optional(),
-  limit: z.coerce
-    .number({ error: 'must be a number' })
-    .int()
-    .min(1, 'must be at least 1')
-    .max(100, 'must be at most 100')
-    .optional(),
+  ...pagingQuery,
 }) satisfies z.ZodType<ReadingQuery, unknown>

@@ -3,7 +3,6 @@
  * corrected by an amendment, a new draft that supersedes it once signed.
  */
 import type { Db } from '../db/knex'
-import { findImage } from '../db/images'
 import {
   insertReading,
   lockReading,
@@ -18,10 +17,10 @@ import type { Reading, ReturnReadingInput } from '../../shared/types/readings'
 import { audit, type Actor } from './audit'
 import {
   assertCan,
-  compute,
   guardedWrite,
   GuardedWriteRefused,
   loadVisibleReading,
+  recomputeStored,
   reload,
   toReadingDto,
 } from './readings'
@@ -35,20 +34,10 @@ export async function signReading(
 ): Promise<Reading> {
   const { reading, image } = await loadVisibleReading(db, actor, id)
   assertCan('sign', reading, actor, version)
-  const pairedImage =
-    reading.pairedImageId !== null ? await findImage(db, reading.pairedImageId) : undefined
   return guardedWrite(db, 'sign', id, actor, version, async (trx) => {
     // Recomputed once more, so the signed results are those of the engine and settings in force
     // at signature, and frozen from here on with that engine version.
-    const computation = await compute(trx, {
-      readingId: id,
-      template: reading.template,
-      options: reading.options,
-      image,
-      pairedImage: pairedImage ?? null,
-      points: reading.landmarks.points,
-      pairedPoints: reading.pairedLandmarks?.points ?? null,
-    })
+    const computation = await recomputeStored(trx, reading, image, id)
     if (!(await signSubmittedReading(trx, id, version, computation, actor.user.id)))
       throw new GuardedWriteRefused()
     let replaced = ''
@@ -132,17 +121,7 @@ export async function amendReading(
         { supersededById: [`supersededById: ${original.supersededById}`] },
       )
     }
-    const pairedImage =
-      original.pairedImageId !== null ? await findImage(trx, original.pairedImageId) : undefined
-    const computation = await compute(trx, {
-      readingId: null,
-      template: original.template,
-      options: original.options,
-      image,
-      pairedImage: pairedImage ?? null,
-      points: original.landmarks.points,
-      pairedPoints: original.pairedLandmarks?.points ?? null,
-    })
+    const computation = await recomputeStored(trx, original, image, null)
     const amendmentId = await insertReading(trx, {
       imageId: original.imageId,
       pairedImageId: original.pairedImageId,

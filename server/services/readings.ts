@@ -104,7 +104,7 @@ function checkPoints(
   }
 }
 
-export interface ComputeContext {
+interface ComputeContext {
   readingId: number | null
   template: ReadingTemplate
   options: TemplateOptions
@@ -115,7 +115,7 @@ export interface ComputeContext {
 }
 
 /** Runs the engine on a reading's landmarks; the engine's refusal is a 400 and stores nothing. */
-export async function compute(db: Db, context: ComputeContext): Promise<ReadingComputation> {
+async function compute(db: Db, context: ComputeContext): Promise<ReadingComputation> {
   const calibration = calibrationOf(context.image)
   const pairedCalibration = context.pairedImage ? calibrationOf(context.pairedImage) : null
   const document = landmarkDocument(context.points, calibration)
@@ -189,6 +189,30 @@ export async function reload(db: Db, id: number): Promise<ReadingRecord> {
   const reading = await findReading(db, id)
   if (!reading) throw notFound('reading')
   return reading
+}
+
+/**
+ * The stored landmarks computed once more with the films' current calibration and the site
+ * settings in force (at submission, at signature, when an amendment starts). `asReadingId`
+ * is the reading the results will belong to (null for a reading not yet inserted).
+ */
+export async function recomputeStored(
+  db: Db,
+  reading: ReadingRecord,
+  image: ImageRow,
+  asReadingId: number | null,
+): Promise<ReadingComputation> {
+  const pairedImage =
+    reading.pairedImageId !== null ? await findImage(db, reading.pairedImageId) : undefined
+  return compute(db, {
+    readingId: asReadingId,
+    template: reading.template,
+    options: reading.options,
+    image,
+    pairedImage: pairedImage ?? null,
+    points: reading.landmarks.points,
+    pairedPoints: reading.pairedLandmarks?.points ?? null,
+  })
 }
 
 export async function createReading(
@@ -402,19 +426,9 @@ export async function submitReading(
       { points: ['points: none of the template landmarks is placed'] },
     )
   }
-  const pairedImage =
-    reading.pairedImageId !== null ? await findImage(db, reading.pairedImageId) : undefined
   return guardedWrite(db, 'submit', id, actor, version, async (trx) => {
     // Recomputed with the films' current calibration, so the submitted results match what is shown.
-    const computation = await compute(trx, {
-      readingId: id,
-      template: reading.template,
-      options: reading.options,
-      image,
-      pairedImage: pairedImage ?? null,
-      points: reading.landmarks.points,
-      pairedPoints: reading.pairedLandmarks?.points ?? null,
-    })
+    const computation = await recomputeStored(trx, reading, image, id)
     const reviewerId = await reviewerFor(trx, image.visitId, actor.user.id)
     if (!(await submitDraftReading(trx, id, version, computation, reviewerId)))
       throw new GuardedWriteRefused()
