@@ -25,10 +25,13 @@ interface Ids {
   visitId: number
   imageId: number
   readingId: number
+  studyId: number
+  researcherId: number
   patientVersion: () => Promise<number>
   visitVersion: () => Promise<number>
   readingVersion: () => Promise<number>
   imageVersion: () => Promise<number>
+  studyVersion: () => Promise<number>
 }
 
 let n = 0
@@ -203,6 +206,64 @@ const ROUTES: RouteCase[] = [
     body: () => ({ points: {} }),
     expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 200, researcher: 200 },
   },
+  // Studies: surgeons and administrators manage them; researchers read the studies they belong to.
+  {
+    method: 'get',
+    path: () => '/api/studies',
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 200 },
+  },
+  {
+    method: 'post',
+    path: () => '/api/studies',
+    body: (_ids, count) => ({ name: `Matrix cohort ${count}-${Math.random()}` }),
+    expect: { anonymous: 401, admin: 201, surgeon: 201, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: () => '/api/studies/patient-candidates',
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: () => '/api/studies/member-candidates',
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: (ids) => `/api/studies/${ids.studyId}`,
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 200 },
+  },
+  {
+    method: 'patch',
+    path: (ids) => `/api/studies/${ids.studyId}`,
+    body: () => ({ note: 'matrix' }),
+    version: (ids) => ids.studyVersion(),
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: (ids) => `/api/studies/${ids.studyId}/patients`,
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 200 },
+  },
+  {
+    method: 'put',
+    path: (ids) => `/api/studies/${ids.studyId}/patients`,
+    body: (ids) => ({ patientIds: [ids.patientId] }),
+    version: (ids) => ids.studyVersion(),
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: (ids) => `/api/studies/${ids.studyId}/members`,
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 200 },
+  },
+  {
+    method: 'put',
+    path: (ids) => `/api/studies/${ids.studyId}/members`,
+    body: (ids) => ({ userIds: [ids.researcherId] }),
+    version: (ids) => ids.studyVersion(),
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 403 },
+  },
   {
     method: 'get',
     path: () => '/api/users',
@@ -238,7 +299,7 @@ beforeEach(async () => {
   users = await createUsersForEveryRole(db, config)
   const patientId = await insertTestPatient(db, users.fellow.id)
   const visitId = await insertTestVisit(db, patientId, users.fellow.id)
-  await insertStudyWith(db, users.researcher.id, [patientId])
+  const studyId = await insertStudyWith(db, users.researcher.id, [patientId])
   // A film row without files (the reading routes never open the image) and a draft by the fellow.
   const imageId = await insertImage(db, {
     visitId,
@@ -277,16 +338,19 @@ beforeEach(async () => {
     visitId,
     imageId,
     readingId,
+    studyId,
+    researcherId: users.researcher.id,
     patientVersion: async () => (await db('patients').where({ id: patientId }).first()).version,
     visitVersion: async () => (await db('visits').where({ id: visitId }).first()).version,
     readingVersion: async () => (await db('readings').where({ id: readingId }).first()).version,
     imageVersion: async () => (await db('images').where({ id: imageId }).first()).version,
+    studyVersion: async () => (await db('studies').where({ id: studyId }).first()).version,
   }
 })
 
 describe('role × route matrix', () => {
   for (const route of ROUTES) {
-    it(`${route.method.toUpperCase()} ${route.path({ patientId: 1, visitId: 1, imageId: 1, readingId: 1 } as Ids).replace(/\/1(\/|$)/g, '/:id$1')} answers each role as designed`, async () => {
+    it(`${route.method.toUpperCase()} ${route.path({ patientId: 1, visitId: 1, imageId: 1, readingId: 1, studyId: 1 } as Ids).replace(/\/1(\/|$)/g, '/:id$1')} answers each role as designed`, async () => {
       const seen: Record<string, number> = {}
       for (const who of Object.keys(route.expect) as Who[]) {
         let body = route.body?.(ids, n)
