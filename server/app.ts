@@ -23,6 +23,7 @@ import { imagesRouter } from './routes/images'
 import { readingsRouter } from './routes/readings'
 import { plansRouter } from './routes/plans'
 import { studiesRouter } from './routes/studies'
+import { exportsRouter } from './routes/exports'
 import { createLocalFileStore } from './storage/local-file-store'
 import type { FileStore } from './storage/file-store'
 import { projectRoot } from './project-root'
@@ -113,6 +114,7 @@ export function createApp({
   api.use('/audit-events', auditEventsRouter(db))
   api.use('/measurements', measurementsRouter())
   api.use('/studies', studiesRouter(db))
+  api.use('/exports', exportsRouter(db))
   api.use(notFoundHandler)
   app.use('/api', api)
 

@@ -264,6 +264,17 @@ const ROUTES: RouteCase[] = [
     version: (ids) => ids.studyVersion(),
     expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 403 },
   },
+  // Measurement exports: de-identified for researchers; clinicians' fellows and admins get none.
+  ...[
+    '/api/exports/measurements.csv',
+    '/api/exports/measurements.xlsx',
+    '/api/exports/measurements/count',
+    '/api/exports/data-dictionary.csv',
+  ].map((path): RouteCase => ({
+    method: 'get',
+    path: () => path,
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 403, researcher: 200 },
+  })),
   {
     method: 'get',
     path: () => '/api/users',
