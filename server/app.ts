@@ -24,6 +24,7 @@ import { readingsRouter } from './routes/readings'
 import { plansRouter } from './routes/plans'
 import { studiesRouter } from './routes/studies'
 import { exportsRouter } from './routes/exports'
+import { imageDicomRouter } from './routes/image-dicom'
 import { createLocalFileStore } from './storage/local-file-store'
 import type { FileStore } from './storage/file-store'
 import { projectRoot } from './project-root'
@@ -115,6 +116,8 @@ export function createApp({
   api.use('/measurements', measurementsRouter())
   api.use('/studies', studiesRouter(db))
   api.use('/exports', exportsRouter(db))
+  // UIDs of de-identified films are keyed by the server secret, so they cannot be traced back.
+  api.use('/images', imageDicomRouter(db, store, config.JWT_SECRET))
   api.use(notFoundHandler)
   app.use('/api', api)
 

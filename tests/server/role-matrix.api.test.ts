@@ -200,6 +200,12 @@ const ROUTES: RouteCase[] = [
     path: (ids) => `/api/images/${ids.imageId}`,
     expect: { anonymous: 401, admin: 403, surgeon: 409, fellow: 409, researcher: 403 },
   },
+  // The fixture film is a PNG without files: every role that may read it gets 409 (not DICOM).
+  {
+    method: 'get',
+    path: (ids) => `/api/images/${ids.imageId}/dicom`,
+    expect: { anonymous: 401, admin: 403, surgeon: 409, fellow: 409, researcher: 409 },
+  },
   {
     method: 'post',
     path: () => '/api/measurements/compute',
