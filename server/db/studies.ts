@@ -227,3 +227,11 @@ export async function listResearchers(db: Db): Promise<StudyMember[]> {
     active: toBoolean(row.active as number),
   }))
 }
+
+export async function listStudyPatientIds(db: Db, studyId: number): Promise<number[]> {
+  const rows = await db(TABLES.studyPatients)
+    .where({ study_id: studyId })
+    .orderBy('patient_id')
+    .select('patient_id')
+  return rows.map((row) => row.patient_id as number)
+}

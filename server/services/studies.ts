@@ -7,6 +7,7 @@ import {
   insertStudy,
   listResearchers,
   listStudyMembers,
+  listStudyPatientIds,
   replaceStudyMembers,
   replaceStudyPatients,
   researcherIds,
@@ -41,7 +42,11 @@ async function loadStudy(db: Db, actor: Actor, id: number): Promise<StudySummary
 }
 
 async function withMembers(db: Db, study: StudySummary): Promise<Study> {
-  return { ...study, members: await listStudyMembers(db, study.id) }
+  return {
+    ...study,
+    members: await listStudyMembers(db, study.id),
+    patientIds: await listStudyPatientIds(db, study.id),
+  }
 }
 
 const staleVersion = (current: number) =>

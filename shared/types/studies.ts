@@ -27,9 +27,10 @@ export interface StudyMember {
   active: boolean
 }
 
-/** One study with its members (its patients are a paged list of their own). */
+/** One study with its members and the ids of its patients (their details are a paged list). */
 export interface Study extends StudySummary {
   members: StudyMember[]
+  patientIds: number[]
 }
 
 export interface StudyInput {

@@ -10,7 +10,14 @@ import SignInView from '@/views/SignInView.vue'
 
 /** Every route name; navigation goes by name so a typo does not compile. */
 export type RouteName =
-  'sign-in' | 'patients' | 'patient' | 'reading-workspace' | 'administration' | 'not-found'
+  | 'sign-in'
+  | 'patients'
+  | 'patient'
+  | 'reading-workspace'
+  | 'studies'
+  | 'study'
+  | 'administration'
+  | 'not-found'
 
 declare module 'vue-router' {
   interface RouteMeta {
@@ -49,6 +56,19 @@ const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
     component: () => import('@/views/ReadingWorkspaceView.vue'),
     props: (route) => ({ readingId: Number(route.params.readingId) }),
     meta: { permission: 'patient:read', title: 'Reading' },
+  },
+  {
+    path: '/studies',
+    name: 'studies',
+    component: () => import('@/views/StudiesView.vue'),
+    meta: { permission: 'study:read', title: 'Studies' },
+  },
+  {
+    path: '/studies/:studyId',
+    name: 'study',
+    component: () => import('@/views/StudyView.vue'),
+    props: (route) => ({ studyId: Number(route.params.studyId) }),
+    meta: { permission: 'study:read', title: 'Study' },
   },
   {
     path: '/administration',

@@ -62,6 +62,7 @@ describe('POST /api/studies', () => {
       filmCount: 0,
       readingCount: 0,
       members: [],
+      patientIds: [],
     })
     const events = await auditEvents('study', res.body.id)
     expect(events.map((event) => event.action)).toEqual(['create'])
@@ -235,7 +236,7 @@ describe('PUT /api/studies/:id/patients and /members', () => {
       patientIds: [b, c],
       version: 2,
     })
-    expect(second.body).toMatchObject({ patientCount: 2, version: 3 })
+    expect(second.body).toMatchObject({ patientCount: 2, version: 3, patientIds: [b, c] })
     const stored = await db(TABLES.studyPatients).where({ study_id: id }).orderBy('patient_id')
     expect(stored.map((row) => row.patient_id)).toEqual([b, c])
     const unknown = await as(users.surgeon).put(`/api/studies/${id}/patients`, {
