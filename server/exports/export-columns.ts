@@ -469,7 +469,7 @@ export const MEASUREMENT_COLUMNS: ExportColumn[] = [
     'pi_ll_modifier',
     null,
     'text',
-    'SRS-Schwab PI−LL modifier: 0 (< 10°), + (10–20°), ++ (> 20°)',
+    "SRS-Schwab PI−LL modifier: 0 (< 10°), + (10–20°), ++ (> 20°); written '+ and '++ so that spreadsheets read them as text, not formulas",
     SOURCES.piLlBand,
     (c) => c.reading.results.measurements.piLlBand,
   ),
