@@ -66,11 +66,40 @@ export function safeDisplayName(name: string): string {
   return cleaned.slice(0, 255) || 'unnamed'
 }
 
+// RFC 2046 §5.1.1: the boundary is 1 to 70 characters, quoted or a bare token.
+const BOUNDARY_PARAMETER = /;\s*boundary=(?:"[^"]{1,70}"|[^\s;"]{1,70})\s*(?:;|$)/i
+
+/**
+ * Refuses, in our own words and before any byte is read, an upload that is not multipart
+ * (415) or whose multipart type carries no boundary (400, RFC 7578 §4.1): busboy would throw.
+ */
+function requireMultipartBody(req: Request): void {
+  const type = req.get('content-type') ?? ''
+  if (!/^multipart\/form-data\s*(;|$)/i.test(type.trim())) {
+    throw new HttpError(
+      415,
+      'unsupported_media_type',
+      'Send films as multipart/form-data, each in the field "file".',
+    )
+  }
+  if (!BOUNDARY_PARAMETER.test(type)) {
+    throw new HttpError(
+      400,
+      'upload_refused',
+      'The upload names no multipart boundary (Content-Type: multipart/form-data; boundary=...), so its parts cannot be read.',
+    )
+  }
+}
+
 export function filmUpload(tmpDir: string, maxMegabytes: number): RequestHandler {
-  return multer({
+  const parse = multer({
     storage: hashingDiskStorage(tmpDir),
     limits: { fileSize: Math.round(maxMegabytes * 1024 * 1024), files: 20, fields: 50 },
   }).array('file', 20)
+  return (req, res, next) => {
+    requireMultipartBody(req)
+    parse(req, res, next)
+  }
 }
 
 export function uploadsOf(files: unknown): StreamedUpload[] {
