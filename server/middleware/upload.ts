@@ -70,19 +70,13 @@ export function safeDisplayName(name: string): string {
 const BOUNDARY_PARAMETER = /;\s*boundary=(?:"[^"]{1,70}"|[^\s;"]{1,70})\s*(?:;|$)/i
 
 /**
- * Refuses, in our own words and before any byte is read, an upload that is not multipart
- * (415) or whose multipart type carries no boundary (400, RFC 7578 §4.1): busboy would throw.
+ * Refuses, in our own words and before any byte is read, a multipart upload whose type carries
+ * no boundary (RFC 7578 §4.1), which busboy would throw on. A body that is not multipart at all
+ * passes: multer skips it and the service answers that no file was attached.
  */
-function requireMultipartBody(req: Request): void {
+function requireMultipartBoundary(req: Request): void {
   const type = req.get('content-type') ?? ''
-  if (!/^multipart\/form-data\s*(;|$)/i.test(type.trim())) {
-    throw new HttpError(
-      415,
-      'unsupported_media_type',
-      'Send films as multipart/form-data, each in the field "file".',
-    )
-  }
-  if (!BOUNDARY_PARAMETER.test(type)) {
+  if (/^\s*multipart\//i.test(type) && !BOUNDARY_PARAMETER.test(type)) {
     throw new HttpError(
       400,
       'upload_refused',
@@ -97,7 +91,7 @@ export function filmUpload(tmpDir: string, maxMegabytes: number): RequestHandler
     limits: { fileSize: Math.round(maxMegabytes * 1024 * 1024), files: 20, fields: 50 },
   }).array('file', 20)
   return (req, res, next) => {
-    requireMultipartBody(req)
+    requireMultipartBoundary(req)
     parse(req, res, next)
   }
 }

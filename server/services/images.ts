@@ -18,6 +18,7 @@ import type { FileStore } from '../storage/file-store'
 import { decodeFilm } from '../images/decode-film'
 import { makeFilmRenditions, type FilmRenditions } from '../images/renditions'
 import { isImageError } from '../images/image-error'
+import { isPlausibleSpacingMm, PLAUSIBLE_SPACING_MM } from '../images/dicom/pixel-spacing'
 import type { DecodedFilm } from '../images/decoded-film'
 import type { StreamedUpload } from '../middleware/upload'
 import { asNotFound, badRequest, conflict, HttpError, notFound } from '../errors'
@@ -454,6 +455,13 @@ export async function calibrateImage(
       : 1
   const columnMm = lengthMm / Math.hypot(dx, dy * aspect)
   const rowMm = columnMm * aspect
+  if (!isPlausibleSpacingMm(columnMm) || !isPlausibleSpacingMm(rowMm)) {
+    const { min, max } = PLAUSIBLE_SPACING_MM
+    throw badRequest(
+      `line: ${lengthMm} mm over ${lengthPx.toFixed(1)} px gives ${columnMm.toPrecision(3)} mm per pixel, outside the ${min}–${max} mm of radiographs; check the marker's length and the line's ends`,
+      { line: ['line: gives an implausible spacing'] },
+    )
+  }
   const changed = await db.transaction(async (trx) => {
     const ok = await updateImageCalibration(trx, imageId, input.version, {
       mmPerPixelRow: rowMm,
