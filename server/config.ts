@@ -31,6 +31,7 @@ const envSchema = z.object({
     .default('endplate'),
   DB_PASSWORD: z.string().min(1),
   DB_DATA_DIR: z.string().default('.data/mariadb'),
+  DB_QUERY_TIMEOUT_MS: z.coerce.number().int().min(500).max(600_000).default(5_000),
   JWT_SECRET: z.string().min(16, 'JWT_SECRET must be at least 16 characters'),
   SESSION_MINUTES: z.coerce
     .number()

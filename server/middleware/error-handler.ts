@@ -2,6 +2,10 @@ import type { ErrorRequestHandler } from 'express'
 import { ZodError } from 'zod'
 import { HttpError } from '../errors'
 import { zodDetails } from '../schemas/zod-details'
+import { isDatabaseUnreachable, isLockContention } from '../db/unavailable'
+
+/** Seconds a client is asked to wait before trying again after a 503. */
+export const RETRY_AFTER_SECONDS = 5
 
 interface MysqlError {
   code?: string
@@ -100,6 +104,27 @@ export function errorHandler(exposeInternals: boolean): ErrorRequestHandler {
         error: {
           code: 'conflict',
           message: 'A record with the same unique value already exists.',
+        },
+      })
+      return
+    }
+    if (isDatabaseUnreachable(error)) {
+      req.log?.warn({ code: (error as { code?: string }).code }, 'database unreachable')
+      res.setHeader('Retry-After', String(RETRY_AFTER_SECONDS))
+      res.status(503).json({
+        error: {
+          code: 'database_unavailable',
+          message: `The database is not answering right now. Try again in ${RETRY_AFTER_SECONDS} seconds; if this goes on, tell your administrator.`,
+        },
+      })
+      return
+    }
+    if (isLockContention(error)) {
+      res.setHeader('Retry-After', '1')
+      res.status(503).json({
+        error: {
+          code: 'busy',
+          message: 'Someone else was changing the same records at that moment. Try again.',
         },
       })
       return
