@@ -15,6 +15,7 @@ import { buildTestApp, createUsersForEveryRole, type TestUser } from '../support
 import { insertStudyWith, insertTestPatient, insertTestVisit } from '../support/fixtures'
 import { smallPhantomFiles } from '../support/phantom-files'
 import { writeTestDicom } from './unit/images/dicom-fixture'
+import { deflateBomb } from './unit/images/part10-writer'
 
 let db: Db
 let app: Express
@@ -517,5 +518,16 @@ describe('spacing a radiograph cannot have', () => {
     expect(res.body.error.message).toMatch(/0\.01–5 mm/)
     const stored = await db(TABLES.images).where({ id: image.id }).first()
     expect(stored.mm_per_pixel_row).toBeNull()
+  })
+})
+
+describe('hostile files', () => {
+  it('refuses a deflated DICOM that would inflate to 2 GiB with 422, and files nothing', async () => {
+    const bomb = deflateBomb(2 * 2 ** 30 - 2)
+    const res = await upload(users.fellow, bomb, 'bomb.dcm', { view: 'lateral-neutral' })
+    expect(res.status).toBe(422)
+    expect(res.body.error.message).toMatch(/bomb\.dcm: .*inflates to more than/)
+    expect(await db(TABLES.images).count({ n: '*' })).toEqual([{ n: 0 }])
+    expect(filesOnDisk()).toEqual([])
   })
 })
