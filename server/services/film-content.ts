@@ -1,5 +1,5 @@
 import type { Db } from '../db/knex'
-import { countImagesWithHash } from '../db/images'
+import { referencedKeysByHash } from '../db/images'
 import { deleteFilmContent, lockFilmContents } from '../db/film-files'
 import type { FileStore } from '../storage/file-store'
 
@@ -9,13 +9,14 @@ export function contentFolder(hash: string): string {
 }
 
 /**
- * Removes a film content's files and its row when no image uses the hash any more. Runs under
- * the content row's lock, which an upload of the same film also takes before it moves files in,
- * so an upload either commits first (and the files stay) or finds them gone and writes them
- * again. Files newer than `olderThan` are left alone (another process may be writing them).
- * Answers the keys removed.
+ * Removes the files under a content hash's folder that no image row references, and the
+ * content row itself once no image uses the hash. Runs under the content row's lock, which an
+ * upload of the same film also takes before it moves files in: an upload either commits first
+ * (and its files are referenced) or finds them gone and writes them again. Files modified at or
+ * after `olderThan` are left alone (another process may be writing them). Answers the keys
+ * removed.
  */
-export async function removeUnusedContent(
+export async function removeUnreferencedFiles(
   db: Db,
   store: FileStore,
   hash: string,
@@ -24,14 +25,14 @@ export async function removeUnusedContent(
   return db.transaction(
     async (trx) => {
       await lockFilmContents(trx, [hash])
-      if ((await countImagesWithHash(trx, hash)) > 0) return []
+      const referenced = (await referencedKeysByHash(trx, hash)).get(hash) ?? new Set<string>()
       const removed: string[] = []
       for await (const entry of store.list(contentFolder(hash))) {
-        if (entry.modifiedAt >= olderThan) continue
+        if (referenced.has(entry.key) || entry.modifiedAt >= olderThan) continue
         await store.remove(entry.key)
         removed.push(entry.key)
       }
-      await deleteFilmContent(trx, hash)
+      if (referenced.size === 0) await deleteFilmContent(trx, hash)
       return removed
     },
     { isolationLevel: 'read committed' },

@@ -20,7 +20,7 @@ import type { IngestedFilm, RenditionKind } from '../images/ingest/ingest-film'
 import { isImageError } from '../images/image-error'
 import { isPlausibleSpacingMm, PLAUSIBLE_SPACING_MM } from '../images/dicom/pixel-spacing'
 import { lockFilmContents } from '../db/film-files'
-import { contentFolder, removeUnusedContent } from './film-content'
+import { contentFolder, removeUnreferencedFiles } from './film-content'
 import type { StreamedUpload } from '../middleware/upload'
 import { asNotFound, badRequest, conflict, HttpError, notFound } from '../errors'
 import { IMAGE_VIEWS, type ImageView } from '../../shared/types/domain'
@@ -381,7 +381,7 @@ export async function removeImage(
     )
   })
   // Files are shared by content hash; removed only when no other image uses them.
-  await removeUnusedContent(db, store, image.contentHash)
+  await removeUnreferencedFiles(db, store, image.contentHash)
 }
 
 /** Default true length of the calibration object: a 25 mm sphere (common practice). */
