@@ -195,6 +195,26 @@ async function fileFilms(
   prepared: PreparedFilm[],
   context: { mismatchConfirmed: boolean; studyCode: string },
 ): Promise<ImageRecord[]> {
+  try {
+    return await fileFilmsOnce(db, store, actor, visitId, prepared, context)
+  } catch (error) {
+    // All or nothing: files moved in for rows that were rolled back go again (under their
+    // locks, so a film another request filed meanwhile keeps its files). If the database is
+    // gone too, the start-up sweep removes them later.
+    for (const hash of new Set(prepared.map(({ upload }) => upload.sha256)))
+      await removeUnreferencedFiles(db, store, hash).catch(() => [])
+    throw error
+  }
+}
+
+async function fileFilmsOnce(
+  db: Db,
+  store: FileStore,
+  actor: Actor,
+  visitId: number,
+  prepared: PreparedFilm[],
+  context: { mismatchConfirmed: boolean; studyCode: string },
+): Promise<ImageRecord[]> {
   return db.transaction(
     async (trx) => {
       await lockFilmContents(

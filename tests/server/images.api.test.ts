@@ -180,6 +180,24 @@ describe('POST /api/visits/:id/images', () => {
     expect(await db(TABLES.images).count({ c: '*' })).toEqual([{ c: 1 }])
   })
 
+  it('files nothing of a several-file upload when one of its films fails at filing', async () => {
+    // The PNG is new; the same DICOM twice in one request fails on the second copy, under the
+    // lock, after the PNG's and the first DICOM's files were moved in: all of it is undone.
+    const res = await request(app)
+      .post(`/api/visits/${visitId}/images`)
+      .set('Cookie', users.fellow.cookie)
+      .field('view', 'lateral-neutral')
+      .field('confirmPatientMismatch', 'true')
+      .attach('file', files.png, 'new.png')
+      .attach('file', files.dicom, 'first.dcm')
+      .attach('file', files.dicom, 'second.dcm')
+    expect(res.status).toBe(409)
+    expect(res.body.error.message).toMatch(/second\.dcm/)
+    expect(await db(TABLES.images).count({ c: '*' })).toEqual([{ c: 0 }])
+    expect(await db(TABLES.filmFiles).count({ c: '*' })).toEqual([{ c: 0 }])
+    expect(filesOnDisk()).toEqual([])
+  })
+
   it.each([
     [
       'a text file named .dcm',
