@@ -24,6 +24,13 @@ export {
   type SegmentPlanCheckInput,
 } from './plan-checks'
 export {
+  DEFAULT_IMPLANT_CENTRING_THRESHOLD_MM,
+  frontalImageRightSide,
+  frontalSideWords,
+  isImplantOffCentre,
+  type FrontalImageRightSide,
+} from './implant-centring'
+export {
   parseLandmarkDocument,
   RIM_COLLINEAR_TOLERANCE,
   ZERO_LENGTH_TOLERANCE_PX,
@@ -32,6 +39,8 @@ export { LandmarkDocumentError, type LandmarkDocumentErrorCode } from './landmar
 export {
   cagePointName,
   cornerName,
+  frontalImplantName,
+  frontalPointName,
   implantMarkerName,
   isKnownLandmarkName,
   KNOWN_LANDMARK_NAMES,
