@@ -303,6 +303,7 @@ function newImageRow(
           bitsStored: header.pixel.bitsStored,
           studyDate: header.studyDate,
           acquisitionDate: header.acquisitionDate,
+          patientOrientation: header.patientOrientation,
           patient: {
             name: header.patient.name
               ? [header.patient.name.family, header.patient.name.given].filter(Boolean).join(', ')

@@ -1,4 +1,11 @@
-import type { FrontalSegmentMeasurement } from '../types/measurement'
+import type {
+  FrontalImageRightSide,
+  FrontalSegmentMeasurement,
+  ImplantCentringResult,
+  MeasurementResult,
+  SegmentName,
+} from '../types/measurement'
+import { SOURCES } from './sources'
 
 /**
  * Default threshold for a disc replacement's lateral offset from the body midline on a frontal
@@ -25,8 +32,7 @@ export function isImplantOffCentre(
   return offset === null ? null : Math.abs(offset) > thresholdMm + THRESHOLD_SLACK_MM
 }
 
-/** Which patient side the image's right edge shows, or that it is unknown. */
-export type FrontalImageRightSide = 'patient-left' | 'patient-right' | 'unknown'
+export type { FrontalImageRightSide }
 
 /**
  * What the `r` side of a frontal film is in the patient, from DICOM Patient Orientation
@@ -53,4 +59,34 @@ export function frontalSideWords(
   if (side === 'unknown') return toward === 'r' ? 'image right' : 'image left'
   const right = side === 'patient-right'
   return (toward === 'r') === right ? 'patient right' : 'patient left'
+}
+
+export interface ImplantCentringOptions {
+  /** Flag an offset above this many mm; default `DEFAULT_IMPLANT_CENTRING_THRESHOLD_MM`. */
+  thresholdMm?: number
+  /** What the image's right edge shows; default 'unknown' ("image right"). */
+  imageRightSide?: FrontalImageRightSide
+}
+
+/**
+ * The threshold check of every frontal segment of a result (measurement-reference §11), with
+ * the film's side naming; null when the result has no frontal segment (a lateral film).
+ */
+export function implantCentring(
+  measurements: Pick<MeasurementResult, 'frontal'>,
+  options: ImplantCentringOptions = {},
+): ImplantCentringResult | null {
+  const thresholdMm = options.thresholdMm ?? DEFAULT_IMPLANT_CENTRING_THRESHOLD_MM
+  const entries = Object.entries(measurements.frontal) as [SegmentName, FrontalSegmentMeasurement][]
+  if (entries.length === 0) return null
+  const segments: ImplantCentringResult['segments'] = {}
+  for (const [name, segment] of entries) {
+    segments[name] = { offCentre: isImplantOffCentre(segment, thresholdMm) }
+  }
+  return {
+    thresholdMm,
+    source: SOURCES.frontalOffset,
+    imageRightSide: options.imageRightSide ?? 'unknown',
+    segments,
+  }
 }

@@ -27,8 +27,10 @@ export {
   DEFAULT_IMPLANT_CENTRING_THRESHOLD_MM,
   frontalImageRightSide,
   frontalSideWords,
+  implantCentring,
   isImplantOffCentre,
   type FrontalImageRightSide,
+  type ImplantCentringOptions,
 } from './implant-centring'
 export {
   parseLandmarkDocument,

@@ -222,6 +222,20 @@ export interface SubsidenceResult {
   segments: Partial<Record<SegmentName, SubsidenceSegmentResult>>
 }
 
+/** Which patient side the image's right edge shows on a frontal film, when the file says. */
+export type FrontalImageRightSide = 'patient-left' | 'patient-right' | 'unknown'
+
+/** The threshold check of each frontal segment, with the side naming of the film. */
+export interface ImplantCentringResult {
+  /** Flag a lateral offset above this many mm (a site setting, default 3 mm). */
+  thresholdMm: number
+  source: string
+  /** From DICOM Patient Orientation; 'unknown' means offsets are named "image right". */
+  imageRightSide: FrontalImageRightSide
+  /** One entry per measured frontal segment: null when the offset has no mm value. */
+  segments: Partial<Record<SegmentName, { offCentre: boolean | null }>>
+}
+
 /** Treatments a plan can record for a segment. */
 export type PlannedTreatment =
   'disc replacement' | 'interbody fusion' | 'posterior fusion' | 'decompression' | 'none'

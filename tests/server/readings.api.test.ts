@@ -36,6 +36,7 @@ let visitId: number
 let neutral: Phantom
 let flexion: Phantom
 let extension: Phantom
+let constructed: Phantom
 
 const PATIENT = {
   recordNumber: 'TST-RDG-1',
@@ -61,6 +62,12 @@ const MM_PER_PIXEL = 0.6 / 1.15
 const L4_L5 = ['L4.as', 'L4.ps', 'L4.pi', 'L4.ai', 'L5.as', 'L5.ps', 'L5.pi', 'L5.ai']
 const pick = (film: Phantom, names: string[]): Points =>
   Object.fromEntries(names.map((name) => [name, film.film.landmarks.points[name] as PixelPoint]))
+/** Every landmark a construct check asks for, at the phantom's exact positions. */
+const constructPoints = (film: Phantom, options: TemplateOptions): Points =>
+  pick(
+    film,
+    templateLandmarks('construct-check', options).map((spec) => spec.name),
+  )
 
 /**
  * Taillard slip by hand (Butt & Saifuddin 2005, Clin Radiol 60:533): d = (U.pi − W.ps)·a with
@@ -82,6 +89,14 @@ beforeAll(async () => {
   uploadDir = mkdtempSync(join(tmpdir(), 'endplate-readings-'))
   ;({ app, config } = buildTestApp(db, { UPLOAD_DIR: uploadDir }))
   neutral = await smallPhantomFiles(NEUTRAL)
+  // The same spine after surgery: invented cages at L3-L4 and L4-L5.
+  constructed = await smallPhantomFiles({
+    ...NEUTRAL,
+    implants: [
+      { kind: 'cage', segment: 'L3-L4' },
+      { kind: 'cage', segment: 'L4-L5' },
+    ],
+  })
   // Invented motion: 12° range and 8 % translation at L4-L5 between flexion and extension.
   const pair = flexionExtensionPair(
     { widthPx: 750, heightPx: 625, detectorPixelMm: 0.6, ...NEUTRAL },
@@ -384,14 +399,15 @@ describe('POST /api/readings/:id/submit', () => {
     ).toHaveLength(1)
   })
 
-  it('refuses to submit a reading with none of its landmarks placed', async () => {
+  it('refuses to submit a reading with a required landmark missing, naming it', async () => {
     const imageId = await uploadFilm(neutral, 'lateral-neutral')
     const created = (
       await post(users.fellow, imageId, { template: 'slip-grade', options: { segment: 'L4-L5' } })
     ).body
     const res = await submit(users.fellow, created.id, 1)
     expect(res.status).toBe(400)
-    expect(res.body.error.message).toMatch(/at least one landmark/)
+    expect(res.body.error.message).toMatch(/^Place 8 required landmarks before submitting: L4 /)
+    expect(Object.keys(res.body.error.details)).toContain('points.L5.ai')
     expect((await db(TABLES.readings).where({ id: created.id }).first()).status).toBe('draft')
   })
 
@@ -491,17 +507,17 @@ describe('construct checks', () => {
 
   it('measures subsidence against the first submitted post-op reading, not against drafts', async () => {
     const postOpImage = await uploadFilm(
-      neutral,
+      constructed,
       'lateral-neutral',
       await visitOf('post-op', '2026-03-10'),
     )
     const followUpImage = await uploadFilm(
-      neutral,
+      constructed,
       'lateral-neutral',
       await visitOf('follow-up', '2026-09-10'),
     )
-    const construct = { construct: [{ segment: 'L4-L5', implant: 'cage' }] }
-    const baselinePoints = pick(neutral, L4_L5)
+    const construct: TemplateOptions = { construct: [{ segment: 'L4-L5', implant: 'cage' }] }
+    const baselinePoints = constructPoints(constructed, construct)
     const baseline = (
       await post(users.fellow, postOpImage, {
         template: 'construct-check',
@@ -546,12 +562,12 @@ describe('construct checks', () => {
 
   it('does not measure a second rater on the same post-op film as subsidence', async () => {
     const postOpImage = await uploadFilm(
-      neutral,
+      constructed,
       'lateral-neutral',
       await visitOf('post-op', '2026-03-10'),
     )
-    const construct = { construct: [{ segment: 'L4-L5', implant: 'cage' }] }
-    const points = pick(neutral, L4_L5)
+    const construct: TemplateOptions = { construct: [{ segment: 'L4-L5', implant: 'cage' }] }
+    const points = constructPoints(constructed, construct)
     const first = (
       await post(users.fellow, postOpImage, {
         template: 'construct-check',
@@ -574,31 +590,30 @@ describe('construct checks', () => {
 
   it("takes each treated segment's baseline from the earliest reading that measured it", async () => {
     const firstOp = await uploadFilm(
-      neutral,
+      constructed,
       'lateral-neutral',
       await visitOf('post-op', '2026-03-10'),
     )
     const secondOp = await uploadFilm(
-      neutral,
+      constructed,
       'lateral-neutral',
       await visitOf('post-op', '2026-06-10'),
     )
     const followUp = await uploadFilm(
-      neutral,
+      constructed,
       'lateral-neutral',
       await visitOf('follow-up', '2026-09-10'),
     )
-    const l3l4 = templateLandmarks('construct-check', {
+    const l3l4Points = constructPoints(constructed, {
       construct: [{ segment: 'L3-L4', implant: 'cage' }],
-    }).map((spec) => spec.name)
-    const l3l4Points = Object.fromEntries(
-      Object.entries(neutral.film.landmarks.points).filter(([name]) => l3l4.includes(name)),
-    ) as Points
+    })
     const early = (
       await post(users.fellow, firstOp, {
         template: 'construct-check',
         options: { construct: [{ segment: 'L4-L5', implant: 'cage' }] },
-        points: pick(neutral, L4_L5),
+        points: constructPoints(constructed, {
+          construct: [{ segment: 'L4-L5', implant: 'cage' }],
+        }),
       })
     ).body
     await submit(users.fellow, early.id, 1)
@@ -617,10 +632,7 @@ describe('construct checks', () => {
         { segment: 'L4-L5', implant: 'cage' },
       ],
     }
-    const bothNames = templateLandmarks('construct-check', both).map((spec) => spec.name)
-    const bothPoints = Object.fromEntries(
-      Object.entries(neutral.film.landmarks.points).filter(([name]) => bothNames.includes(name)),
-    ) as Points
+    const bothPoints = constructPoints(constructed, both)
     const res = await post(users.fellow, followUp, {
       template: 'construct-check',
       options: both,
