@@ -37,6 +37,7 @@ let neutral: Phantom
 let flexion: Phantom
 let extension: Phantom
 let constructed: Phantom
+let frontal: Phantom
 
 const PATIENT = {
   recordNumber: 'TST-RDG-1',
@@ -89,6 +90,19 @@ beforeAll(async () => {
   uploadDir = mkdtempSync(join(tmpdir(), 'endplate-readings-'))
   ;({ app, config } = buildTestApp(db, { UPLOAD_DIR: uploadDir }))
   neutral = await smallPhantomFiles(NEUTRAL)
+  // A frontal film after surgery: invented disc replacements 2.6 mm toward the image's right
+  // (the patient's left, Patient Orientation L\F) at L4-L5, 1 mm the other way at L3-L4.
+  frontal = await smallPhantomFiles({
+    ...HEADER,
+    view: 'ap',
+    seriesDescription: 'LUMBAR SPINE AP',
+    widthPx: 625,
+    heightPx: 750,
+    implants: [
+      { kind: 'disc-replacement', segment: 'L4-L5', lateralOffsetMm: 2.6, coronalTiltDeg: 4 },
+      { kind: 'disc-replacement', segment: 'L3-L4', lateralOffsetMm: -1 },
+    ],
+  })
   // The same spine after surgery: invented cages at L3-L4 and L4-L5.
   constructed = await smallPhantomFiles({
     ...NEUTRAL,
@@ -656,6 +670,94 @@ describe('construct checks', () => {
     })
     expect(res.status).toBe(400)
     expect(res.body.error.message).toMatch(/pre-op visit/)
+    expect(await readingCount()).toBe(0)
+  })
+})
+
+describe('implant centring on a frontal film', () => {
+  const options: TemplateOptions = { discReplacements: ['L3-L4', 'L4-L5'] }
+  const centringPoints = (film: Phantom): Points =>
+    pick(
+      film,
+      templateLandmarks('implant-centring', options).map((spec) => spec.name),
+    )
+
+  it('measures each disc replacement from the ground truth and names the side from the file', async () => {
+    const visit = await insertTestVisit(db, patientId, users.fellow.id, '2026-03-10', 'post-op')
+    const imageId = await uploadFilm(frontal, 'ap', visit)
+    const res = await post(users.fellow, imageId, {
+      template: 'implant-centring',
+      options,
+      points: centringPoints(frontal),
+    })
+    expect(res.status).toBe(201)
+    const measured = res.body.results.measurements.frontal
+    // The phantom was drawn with these offsets and tilt along the mean endplate direction.
+    expect(measured['L4-L5'].lateralOffsetMm).toBeCloseTo(2.6, 6)
+    expect(measured['L4-L5'].implantTiltDeg).toBeCloseTo(4, 6)
+    expect(measured['L3-L4'].lateralOffsetMm).toBeCloseTo(-1, 6)
+    // Both offsets are within 3 mm (McAfee et al. 2005, from memory, verify): not flagged.
+    expect(res.body.results.centring).toMatchObject({
+      thresholdMm: 3,
+      imageRightSide: 'patient-left',
+      segments: { 'L3-L4': { offCentre: false }, 'L4-L5': { offCentre: false } },
+    })
+    // Intervals come from the same propagation as the lateral measures.
+    const interval = res.body.results.uncertainty.measurements.frontal['L4-L5'].lateralOffsetMm
+    expect(interval.standardDeviation).toBeGreaterThan(0)
+    expect((await submit(users.fellow, res.body.id, 1)).status).toBe(200)
+    const image = await request(app)
+      .get(`/api/images/${imageId}`)
+      .set('Cookie', users.fellow.cookie)
+    expect(image.body.dicom.patientOrientation).toEqual(['L', 'F'])
+  })
+
+  it('submits without the optional spinous processes, not without an implant end', async () => {
+    const visit = await insertTestVisit(db, patientId, users.fellow.id, '2026-03-10', 'post-op')
+    const imageId = await uploadFilm(frontal, 'ap', visit)
+    const { 'L3.sp': _a, 'L4.sp': _b, ...withoutSpinous } = centringPoints(frontal)
+    const { 'tdr.L4-L5.r': _c, ...withoutEnd } = withoutSpinous
+    const incomplete = await post(users.fellow, imageId, {
+      template: 'implant-centring',
+      options,
+      points: withoutEnd,
+    })
+    const refused = await submit(users.fellow, incomplete.body.id, 1)
+    expect(refused.status).toBe(400)
+    expect(refused.body.error.message).toBe(
+      'Place 1 required landmark before submitting: Disc replacement L4-L5, image-right end.',
+    )
+    const complete = await post(users.fellow, imageId, {
+      template: 'implant-centring',
+      options,
+      points: withoutSpinous,
+    })
+    expect(complete.body.results.measurements.frontal['L4-L5'].rotationPercent).toBeNull()
+    expect((await submit(users.fellow, complete.body.id, 1)).status).toBe(200)
+  })
+
+  it('refuses implant centring on a lateral or pre-op film, and a lateral template on an AP film', async () => {
+    const postOp = await insertTestVisit(db, patientId, users.fellow.id, '2026-03-10', 'post-op')
+    const preOp = await insertTestVisit(db, patientId, users.fellow.id, '2026-02-10', 'pre-op')
+    const lateralId = await uploadFilm(neutral, 'lateral-neutral', postOp)
+    const apId = await uploadFilm(frontal, 'ap', postOp)
+    const apPreOp = await uploadFilm(frontal, 'ap', preOp)
+    const cases: Array<[number, object, RegExp]> = [
+      [lateralId, { template: 'implant-centring', options }, /frontal \(AP\) film/],
+      [apPreOp, { template: 'implant-centring', options }, /after surgery/],
+      [apId, { template: 'slip-grade', options: { segment: 'L4-L5' } }, /reads a lateral film/],
+      [apId, { template: 'implant-centring', options: {} }, /discReplacements/],
+      [
+        apId,
+        { template: 'implant-centring', options: { discReplacements: ['L4-L5', 'L4-L5'] } },
+        /twice/,
+      ],
+    ]
+    for (const [imageId, body, message] of cases) {
+      const res = await post(users.fellow, imageId, body)
+      expect(res.status).toBe(400)
+      expect(res.body.error.message).toMatch(message)
+    }
     expect(await readingCount()).toBe(0)
   })
 })
