@@ -38,7 +38,7 @@ export const SOURCES = {
   residualDiscHeight:
     'Büttner-Janz et al. 2014, Int J Spine Surg 8:12 [V]: the literature is mixed on a minimum disc height',
   frontalOffset:
-    'lateral offset of the implant centre from the body midline along the mean endplate direction [D]; flagged above the site threshold, default 3 mm: McAfee et al. 2005, Spine 30:1576, ideal placement within 3 mm of the midline [M]',
+    'offset of the implant centre from the body midline along the endplates [D]; flagged above 3 mm by default (a site setting): McAfee et al. 2005, Spine 30:1576, ideal placement within 3 mm of the midline [M]',
   frontalTilt: 'angle between the implant and the mean endplate direction [D]',
   frontalSegmentAngle: 'angle between the upper and lower endplate lines on the frontal film [D]',
   frontalRotation:

@@ -11,7 +11,7 @@ describe('sourceWords', () => {
   })
   it('says "from memory, verify" and "derived" in words', () => {
     expect(sourceWords(SOURCES.frontalOffset)).toMatch(
-      /^lateral offset .* \(derived\); .*McAfee et al\. 2005, Spine 30:1576, .* \(from memory, verify\)$/,
+      /^offset of the implant centre .* \(derived\); .*McAfee et al\. 2005, Spine 30:1576, .* \(from memory, verify\)$/,
     )
     expect(sourceWords(SOURCES.dupuis)).toBe(
       'Dupuis et al. 1985, Spine 10:262 (partly from memory, verify)',

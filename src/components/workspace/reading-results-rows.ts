@@ -599,7 +599,7 @@ export function centringSection(
   const offsetSource = sourceWords(SOURCES.frontalOffset)
   const offsetMm = row(
     `${segmentName}-frontal-offset`,
-    'Lateral offset from the midline',
+    'Offset from midline',
     segment.lateralOffsetMm,
     intervals?.lateralOffsetMm,
     'mm',
@@ -608,7 +608,7 @@ export function centringSection(
   )
   const offsetPercent = row(
     `${segmentName}-frontal-offset-percent`,
-    'Lateral offset (of endplate width)',
+    'Offset (of endplate width)',
     segment.lateralOffsetPercent,
     intervals?.lateralOffsetPercent,
     '%',
