@@ -104,6 +104,7 @@ export function createApp({
       store,
       uploadTmpDir: join(config.uploadDirAbsolute, 'tmp'),
       uploadMaxMb: config.UPLOAD_MAX_MB,
+      uploadQueueLimit: config.UPLOAD_QUEUE_LIMIT,
     }),
   )
   api.use('/images', imagesRouter(db, store))

@@ -112,6 +112,30 @@ export async function countImagesWithHash(db: Db, contentHash: string): Promise<
   return Number(count)
 }
 
+const STORED_PATH_COLUMNS = [
+  'original_path',
+  'display_path',
+  'preview_path',
+  'thumbnail_path',
+  'full_depth_path',
+] as const
+
+/** Every stored key that image rows reference, by content hash (all hashes, or the given one). */
+export async function referencedKeysByHash(
+  db: Db,
+  contentHash?: string,
+): Promise<Map<string, Set<string>>> {
+  const query = db(TABLES.images).select('content_hash', ...STORED_PATH_COLUMNS)
+  if (contentHash !== undefined) query.where({ content_hash: contentHash })
+  const keys = new Map<string, Set<string>>()
+  for (const row of (await query) as Array<Record<string, string>>) {
+    const set = keys.get(row.content_hash as string) ?? new Set<string>()
+    for (const column of STORED_PATH_COLUMNS) set.add(row[column] as string)
+    keys.set(row.content_hash as string, set)
+  }
+  return keys
+}
+
 export type NewImage = Omit<ImageRow, 'id' | 'version' | 'createdAt' | 'manualCalibration'>
 
 export async function insertImage(db: Db, image: NewImage): Promise<number> {

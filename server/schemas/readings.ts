@@ -146,3 +146,6 @@ export const patchReadingBody = z.strictObject({
 }) satisfies z.ZodType<PatchReadingInput>
 
 export const submitReadingBody = z.strictObject({ version })
+
+/** The landmark points of a reading, also the points of a document sent to compute. */
+export { points as landmarkPoints }
