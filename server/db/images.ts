@@ -15,6 +15,8 @@ export interface StoredDicomAttributes {
   studyDate: string | null
   acquisitionDate: string | null
   patient: { name: string | null; id: string | null; birthDate: string | null; sex: string | null }
+  /** Patient Orientation (0020,0020): row then column direction; absent in older records. */
+  patientOrientation?: [row: string, column: string] | null
 }
 
 export interface ImageRow {

@@ -299,6 +299,7 @@ function newImageRow(visitId: number, actor: Actor, prepared: PreparedFilm): New
           bitsStored: header.pixel.bitsStored,
           studyDate: header.studyDate,
           acquisitionDate: header.acquisitionDate,
+          patientOrientation: header.patientOrientation,
           patient: {
             name: header.patient.name
               ? [header.patient.name.family, header.patient.name.given].filter(Boolean).join(', ')

@@ -48,6 +48,17 @@ const newPatient = () => {
 
 // Expected status for each role on every API route (product roles: admin manages users, audit and
 // settings only; surgeon and fellow work with identified patients; researcher sees de-identified data).
+/** A complete L5-S1 slip-grade set on the 100 × 100 px matrix film: a plain upright box. */
+const SLIP_GRADE_L5_S1 = {
+  'L5.as': [70, 20],
+  'L5.ps': [30, 20],
+  'L5.pi': [30, 50],
+  'L5.ai': [70, 50],
+  'S1.as': [70, 60],
+  'S1.ps': [30, 60],
+  'S1.pw': [28, 90],
+}
+
 const ROUTES: RouteCase[] = [
   {
     method: 'get',
@@ -128,7 +139,7 @@ const ROUTES: RouteCase[] = [
   {
     method: 'patch',
     path: (ids) => `/api/readings/${ids.readingId}`,
-    body: () => ({ points: { 'L5.as': [10, 10] } }),
+    body: () => ({ points: SLIP_GRADE_L5_S1 }),
     version: (ids) => ids.readingVersion(),
     expect: { anonymous: 401, admin: 403, surgeon: 403, fellow: 200, researcher: 403 },
   },
@@ -346,7 +357,8 @@ beforeEach(async () => {
   const reading = await request(app)
     .post(`/api/images/${imageId}/readings`)
     .set('Cookie', users.fellow.cookie)
-    .send({ template: 'slip-grade', options: { segment: 'L5-S1' }, points: { 'S1.ps': [40, 60] } })
+    // Every landmark of the template, so that the rater may submit it.
+    .send({ template: 'slip-grade', options: { segment: 'L5-S1' }, points: SLIP_GRADE_L5_S1 })
   if (reading.status !== 201)
     throw new Error(`could not start the matrix reading: ${JSON.stringify(reading.body)}`)
   const readingId = reading.body.id as number
