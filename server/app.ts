@@ -26,6 +26,9 @@ import { invitationsRouter } from './routes/invitations'
 import { settingsRouter } from './routes/settings'
 import { mailRouter } from './routes/mail'
 import { systemClock, type Clock } from './clock'
+import { studiesRouter } from './routes/studies'
+import { exportsRouter } from './routes/exports'
+import { imageDicomRouter } from './routes/image-dicom'
 import { createLocalFileStore } from './storage/local-file-store'
 import type { FileStore } from './storage/file-store'
 import { projectRoot } from './project-root'
@@ -122,6 +125,7 @@ export function createApp({
       store,
       uploadTmpDir: join(config.uploadDirAbsolute, 'tmp'),
       uploadMaxMb: config.UPLOAD_MAX_MB,
+      uploadQueueLimit: config.UPLOAD_QUEUE_LIMIT,
     }),
   )
   api.use('/images', imagesRouter(db, store))
@@ -131,6 +135,10 @@ export function createApp({
   api.use('/measurements', measurementsRouter())
   api.use('/settings', settingsRouter(db))
   api.use('/mail', mailRouter(db, { fakeOn: config.MAIL_FAKE, now }))
+  api.use('/studies', studiesRouter(db))
+  api.use('/exports', exportsRouter(db))
+  // UIDs of de-identified films are keyed by the server secret, so they cannot be traced back.
+  api.use('/images', imageDicomRouter(db, store, config.JWT_SECRET))
   api.use(notFoundHandler)
   app.use('/api', api)
 

@@ -1,10 +1,14 @@
 import { createServer } from 'node:http'
+import { join } from 'node:path'
 import { config } from './config'
 import { createDb } from './db/knex'
 import { createLogger } from './logger'
 import { createApp } from './app'
 import { startMailCatcher, type MailCatcher } from './mail/mail-catcher'
 import { createMailSender } from './mail/mail-sender'
+import { createLocalFileStore } from './storage/local-file-store'
+import { sweepUploadLeftovers } from './services/upload-sweep'
+import { closeIngestPool } from './images/ingest/ingest-pool'
 
 /**
  * Starts the HTTP server (the only module that listens), the outbox's mail sender and, where
@@ -18,6 +22,14 @@ export async function startServer(): Promise<{
 }> {
   const logger = createLogger(config.LOG_LEVEL)
   const db = createDb(config.DB_NAME)
+  const store = createLocalFileStore(config.uploadDirAbsolute)
+  // Before listening: what a crash of the last run left in the uploads folder goes first.
+  await sweepUploadLeftovers({
+    db,
+    store,
+    tmpDir: join(config.uploadDirAbsolute, 'tmp'),
+    logger,
+  })
   let catcher: MailCatcher | null = null
   if (config.MAIL_FAKE) {
     try {
@@ -38,7 +50,7 @@ export async function startServer(): Promise<{
     smtp: { host: config.SMTP_HOST, port: config.SMTP_PORT, ignoreTls: config.MAIL_FAKE },
   })
   sender.start()
-  const server = createServer(createApp({ db, config, logger }))
+  const server = createServer(createApp({ db, config, logger, store }))
   await new Promise<void>((resolveListen, reject) => {
     server.once('error', reject)
     server.listen(config.PORT, config.HOST, () => resolveListen())
@@ -54,6 +66,7 @@ export async function startServer(): Promise<{
       await closed
       await sender.stop()
       await catcher?.close()
+      await closeIngestPool()
       await db.destroy()
     },
   }

@@ -21,12 +21,14 @@ export const TABLES = {
   revokedSessions: 'revoked_sessions',
   passwordResets: 'password_resets',
   caughtMails: 'caught_mails',
+  filmFiles: 'film_files',
 } as const
 
 /** Child tables before parents: the order to truncate or delete in. */
 export const TABLES_CHILDREN_FIRST = [
   TABLES.caughtMails,
   TABLES.passwordResets,
+  TABLES.filmFiles,
   TABLES.revokedSessions,
   TABLES.mailOutbox,
   TABLES.auditEvents,

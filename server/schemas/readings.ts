@@ -51,6 +51,9 @@ const options = z.strictObject({
       { error: 'must be a list of { segment, implant }' },
     )
     .optional(),
+  discReplacements: z
+    .array(segment, { error: 'must be a list of segments with a disc replacement' })
+    .optional(),
 }) satisfies z.ZodType<TemplateOptions>
 
 /** Which options each template takes; anything else is refused rather than silently ignored. */
@@ -61,6 +64,26 @@ function checkOptions(
 ): void {
   const issue = (path: string[], message: string) =>
     ctx.addIssue({ code: 'custom', path: ['options', ...path], message })
+  if (template === 'implant-centring') {
+    if (value.segment !== undefined || value.construct !== undefined)
+      issue(
+        [value.segment !== undefined ? 'segment' : 'construct'],
+        'does not apply to the implant-centring template; list the segments in discReplacements',
+      )
+    const listed = value.discReplacements ?? []
+    if (listed.length === 0)
+      issue(
+        ['discReplacements'],
+        'must list at least one segment with a disc replacement for the implant-centring template',
+      )
+    listed.forEach((entry, index) => {
+      if (listed.indexOf(entry) !== index)
+        issue(['discReplacements', String(index)], `lists ${entry} twice`)
+    })
+    return
+  }
+  if (value.discReplacements !== undefined)
+    issue(['discReplacements'], `does not apply to the ${template} template`)
   if (template === 'slip-grade' || template === 'motion-pair') {
     if (value.segment === undefined)
       issue(
@@ -180,3 +203,6 @@ export const readingQuery = z.object({
   order: z.enum(['asc', 'desc'], { error: 'must be asc or desc' }).optional(),
   ...pagingQuery,
 }) satisfies z.ZodType<ReadingQuery, unknown>
+
+/** The landmark points of a reading, also the points of a document sent to compute. */
+export { points as landmarkPoints }

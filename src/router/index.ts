@@ -15,6 +15,8 @@ export type RouteName =
   | 'patients'
   | 'patient'
   | 'reading-workspace'
+  | 'studies'
+  | 'study'
   | 'administration'
   | 'mail'
   | 'invitation'
@@ -84,6 +86,19 @@ const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
     component: () => import('@/views/ReadingWorkspaceView.vue'),
     props: (route) => ({ readingId: Number(route.params.readingId) }),
     meta: { permission: 'patient:read', title: 'Reading' },
+  },
+  {
+    path: '/studies',
+    name: 'studies',
+    component: () => import('@/views/StudiesView.vue'),
+    meta: { permission: 'study:read', title: 'Studies' },
+  },
+  {
+    path: '/studies/:studyId',
+    name: 'study',
+    component: () => import('@/views/StudyView.vue'),
+    props: (route) => ({ studyId: Number(route.params.studyId) }),
+    meta: { permission: 'study:read', title: 'Study' },
   },
   {
     path: '/administration',
