@@ -9,7 +9,7 @@ import type { ReadingRecord } from '../db/readings'
 import { findUsersByIds, listActiveUsersWithRole, type UserRecord } from '../db/users'
 import { enqueueMails } from '../db/mail-outbox'
 import { listCommenterIds } from '../db/comments'
-import { TEMPLATE_LABELS } from '../../shared/readings/templates'
+import { readingTitle } from '../../shared/readings/reading-title'
 import type { Actor } from './audit'
 
 const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec']
@@ -18,15 +18,6 @@ const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', '
 export function mailDate(isoDate: string): string {
   const [year, month, day] = isoDate.split('-')
   return `${Number(day)} ${MONTHS[Number(month) - 1] ?? '?'} ${year}`
-}
-
-function readingTitle(reading: ReadingRecord): string {
-  const segments = reading.options.segment
-    ? ` ${reading.options.segment}`
-    : reading.options.construct
-      ? ` ${reading.options.construct.map((entry) => entry.segment).join(', ')}`
-      : ''
-  return `${TEMPLATE_LABELS[reading.template]}${segments}`
 }
 
 /**
@@ -54,7 +45,7 @@ async function queue(
 ): Promise<void> {
   const context = await findReadingMailContext(db, reading.id)
   if (!context || recipients.length === 0) return
-  const title = readingTitle(reading)
+  const title = readingTitle(reading.template, reading.options)
   const text = [
     opening,
     '',
