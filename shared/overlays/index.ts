@@ -1,0 +1,9 @@
+export {
+  OVERLAY_COLOURS,
+  type OverlayCategory,
+  type OverlayPoints,
+  type OverlayShape,
+} from './overlay-shapes'
+export { overlayNumberText } from './overlay-labels'
+export { lateralOverlayShapes } from './lateral-overlays'
+export { OVERLAY_BUILDERS, readingOverlayShapes, type OverlayBuilder } from './reading-overlays'
