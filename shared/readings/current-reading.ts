@@ -1,0 +1,55 @@
+import type { ReadingStatus } from '../types/domain'
+
+/**
+ * How strongly each status makes a reading the one that stands for its film; higher wins, null
+ * never stands. A signed reading is the record; a submitted one has been finished by its rater; a
+ * draft is work in progress. A status added later must be given a rank here (the type makes the
+ * compiler ask): a reading sent back for changes could rank with a draft, and a reading replaced
+ * by an amendment must be null.
+ */
+export const CURRENT_READING_RANK: Readonly<Record<ReadingStatus, number | null>> = {
+  signed: 3,
+  submitted: 2,
+  draft: 1,
+}
+
+/** What the choice needs to know about a reading. */
+export interface CurrentReadingCandidate {
+  id: number
+  status: string
+  blinded: boolean
+  supersedesId: number | null
+}
+
+/** The rank of a status; a status this build does not know never stands for a film. */
+export function currentReadingRank(status: string): number | null {
+  return Object.hasOwn(CURRENT_READING_RANK, status)
+    ? CURRENT_READING_RANK[status as ReadingStatus]
+    : null
+}
+
+/**
+ * The reading that stands for a film among the readings made on it: signed before submitted
+ * before draft, the newest (highest id: readings are numbered as they are started) within a
+ * status. Never a blinded re-reading (it belongs to a reliability round, not to the patient's
+ * care), never a reading another candidate supersedes, never a status without a rank. Null when
+ * none qualifies. The choice uses ids only, so every role sees the same reading as current.
+ */
+export function currentReadingOf<R extends CurrentReadingCandidate>(
+  readings: readonly R[],
+): R | null {
+  const superseded = new Set(
+    readings.map((reading) => reading.supersedesId).filter((id): id is number => id !== null),
+  )
+  let best: R | null = null
+  let bestRank = 0
+  for (const reading of readings) {
+    const rank = currentReadingRank(reading.status)
+    if (rank === null || reading.blinded || superseded.has(reading.id)) continue
+    if (best === null || rank > bestRank || (rank === bestRank && reading.id > best.id)) {
+      best = reading
+      bestRank = rank
+    }
+  }
+  return best
+}
