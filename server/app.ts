@@ -22,6 +22,7 @@ import { measurementsRouter } from './routes/measurements'
 import { imagesRouter } from './routes/images'
 import { readingsRouter } from './routes/readings'
 import { plansRouter } from './routes/plans'
+import { comparisonsRouter } from './routes/comparisons'
 import { createLocalFileStore } from './storage/local-file-store'
 import type { FileStore } from './storage/file-store'
 import { projectRoot } from './project-root'
@@ -111,6 +112,7 @@ export function createApp({
   api.use('/users', usersRouter(db))
   api.use('/audit-events', auditEventsRouter(db))
   api.use('/measurements', measurementsRouter())
+  api.use('/comparisons', comparisonsRouter(db))
   api.use(notFoundHandler)
   app.use('/api', api)
 

@@ -202,3 +202,26 @@ export async function findConstructBaselines(
   if (current.readingId !== null) query.whereNot('r.id', current.readingId)
   return ((await query) as RawRow[]).map(toReading)
 }
+
+/**
+ * Signs a submitted reading under the version guard: status signed, signer and time recorded.
+ * False when the reading is not submitted or was changed since `expectedVersion`.
+ */
+export async function signSubmittedReading(
+  db: Db,
+  id: number,
+  expectedVersion: number,
+  signerId: number,
+): Promise<boolean> {
+  const now = new Date()
+  const changed = await db(TABLES.readings)
+    .where({ id, version: expectedVersion, status: 'submitted' })
+    .update({
+      status: 'signed',
+      signed_at: now,
+      signed_by: signerId,
+      version: db.raw('version + 1'),
+      updated_at: now,
+    })
+  return changed === 1
+}
