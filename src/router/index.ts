@@ -10,7 +10,13 @@ import SignInView from '@/views/SignInView.vue'
 
 /** Every route name; navigation goes by name so a typo does not compile. */
 export type RouteName =
-  'sign-in' | 'patients' | 'patient' | 'reading-workspace' | 'administration' | 'not-found'
+  | 'sign-in'
+  | 'patients'
+  | 'patient'
+  | 'reading-workspace'
+  | 'administration'
+  | 'not-found'
+  | 'compare'
 
 declare module 'vue-router' {
   interface RouteMeta {
@@ -20,6 +26,15 @@ declare module 'vue-router' {
     permission?: Permission
     title?: string
   }
+}
+
+/** Ids from a query value written "12,15"; anything that is not a positive integer is dropped. */
+function idsOf(value: unknown): number[] {
+  const text = Array.isArray(value) ? value.join(',') : typeof value === 'string' ? value : ''
+  return text
+    .split(',')
+    .map(Number)
+    .filter((id) => Number.isSafeInteger(id) && id > 0)
 }
 
 const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
@@ -49,6 +64,17 @@ const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
     component: () => import('@/views/ReadingWorkspaceView.vue'),
     props: (route) => ({ readingId: Number(route.params.readingId) }),
     meta: { permission: 'patient:read', title: 'Reading' },
+  },
+  {
+    path: '/patients/:patientId/compare',
+    name: 'compare',
+    component: () => import('@/views/CompareView.vue'),
+    props: (route) => ({
+      patientId: Number(route.params.patientId),
+      images: idsOf(route.query.images),
+      readings: idsOf(route.query.readings),
+    }),
+    meta: { permission: 'patient:read', title: 'Compare' },
   },
   {
     path: '/administration',

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import type { PixelPoint } from '../../../shared/types/landmarks'
 import { computeMeasurements, computeUncertainty } from '../../../shared/measurement'
-import { workspaceResultSections } from '../../../src/components/workspace/reading-results-rows'
+import { workspaceResultSections } from '../../../shared/readings/result-rows'
 
 /**
  * A hand-built L5-S1 segment: S1's endplate horizontal, 40 px deep, anterior to +x; L5 shifted
