@@ -23,6 +23,7 @@ import { imagesRouter } from './routes/images'
 import { readingsRouter } from './routes/readings'
 import { plansRouter } from './routes/plans'
 import { comparisonsRouter } from './routes/comparisons'
+import { reportsRouter } from './routes/reports'
 import { createLocalFileStore } from './storage/local-file-store'
 import type { FileStore } from './storage/file-store'
 import { projectRoot } from './project-root'
@@ -113,6 +114,7 @@ export function createApp({
   api.use('/audit-events', auditEventsRouter(db))
   api.use('/measurements', measurementsRouter())
   api.use('/comparisons', comparisonsRouter(db))
+  api.use(reportsRouter(db, store))
   api.use(notFoundHandler)
   app.use('/api', api)
 

@@ -5,7 +5,7 @@ import type { ValueInterval } from '../types/measurement'
  * How the interval of a change is formed, in words for the table.
  */
 export const DIFFERENCE_INTERVAL_METHOD =
-  'change = later − earlier; the two readings are placed on different films, so their placement errors are taken as independent and the 95 % half-widths add in quadrature: ±√(h₁² + h₂²)'
+  'change = later − earlier; the two readings are placed on different films, so their placement errors are taken as independent and the 95 % half-widths add in quadrature (the square root of the sum of their squares)'
 
 /**
  * The change from `before` to `after` (after − before, in their common unit) with its 95 %

@@ -7,3 +7,4 @@ export {
 export { overlayNumberText } from './overlay-labels'
 export { lateralOverlayShapes } from './lateral-overlays'
 export { OVERLAY_BUILDERS, readingOverlayShapes, type OverlayBuilder } from './reading-overlays'
+export { overlaySvg, type OverlaySvgOptions } from './overlay-svg'
