@@ -101,7 +101,7 @@ export function overlaySvg(shapes: readonly OverlayShape[], options: OverlaySvgO
   }
   if (options.labels) {
     parts.push(
-      `<g font-family="Inter, sans-serif" font-weight="500" font-size="${number(12 * unit)}" dominant-baseline="middle" stroke="${HALO}" stroke-width="${number(3 * unit)}" stroke-linejoin="round" paint-order="stroke">`,
+      `<g font-family="Inter, sans-serif" font-weight="500" font-size="${number(12 * unit)}" dominant-baseline="middle" stroke="${HALO}" stroke-width="${number(2.4 * unit)}" stroke-linejoin="round" paint-order="stroke">`,
     )
     for (const shape of shapes) {
       if (shape.kind !== 'label') continue

@@ -1,7 +1,7 @@
 import type { ComparisonTable } from '../types/compare'
 import type { SegmentName } from '../types/measurement'
 import type { PatientPlan, PlanSegment } from '../types/plans'
-import type { ReportTable } from '../types/reports'
+import type { ReportSignOff, ReportTable } from '../types/reports'
 import type { ResultSection } from '../readings/result-rows'
 import { plainCitation } from '../readings/plain-citation'
 import { changeIntervalText, changeText, intervalText, measureText } from './measure-text'
@@ -213,4 +213,26 @@ export function comparisonTables(
     })
   }
   return tables
+}
+
+/** Who made and who signed a reading, as a one-row table ("not signed" until it is). */
+export function signOffTable(signOff: ReportSignOff): ReportTable {
+  return {
+    id: 'sign-off',
+    title: 'Rater and sign-off',
+    columns: ['Rater', 'Status', 'Submitted', 'Signed by', 'Signed'],
+    widths: [24, 20, 18, 20, 18],
+    rows: [
+      {
+        cells: [
+          signOff.rater,
+          signOff.status,
+          signOff.submittedAt ?? '—',
+          signOff.signer ?? 'not signed',
+          signOff.signedAt ?? '—',
+        ],
+      },
+    ],
+    notes: [],
+  }
 }

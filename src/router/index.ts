@@ -17,6 +17,9 @@ export type RouteName =
   | 'administration'
   | 'not-found'
   | 'compare'
+  | 'compare-print'
+  | 'reading-report'
+  | 'visit-report'
 
 declare module 'vue-router' {
   interface RouteMeta {
@@ -75,6 +78,31 @@ const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
       readings: idsOf(route.query.readings),
     }),
     meta: { permission: 'patient:read', title: 'Compare' },
+  },
+  {
+    path: '/patients/:patientId/compare/print',
+    name: 'compare-print',
+    component: () => import('@/views/ComparePrintView.vue'),
+    props: (route) => ({
+      patientId: Number(route.params.patientId),
+      images: idsOf(route.query.images),
+      readings: idsOf(route.query.readings),
+    }),
+    meta: { permission: 'patient:read', title: 'Comparison to print' },
+  },
+  {
+    path: '/readings/:readingId/report',
+    name: 'reading-report',
+    component: () => import('@/views/ReportPrintView.vue'),
+    props: (route) => ({ kind: 'reading', id: Number(route.params.readingId) }),
+    meta: { permission: 'patient:read', title: 'Reading report' },
+  },
+  {
+    path: '/visits/:visitId/report',
+    name: 'visit-report',
+    component: () => import('@/views/ReportPrintView.vue'),
+    props: (route) => ({ kind: 'visit', id: Number(route.params.visitId) }),
+    meta: { permission: 'patient:read', title: 'Visit report' },
   },
   {
     path: '/administration',

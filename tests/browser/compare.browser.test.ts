@@ -12,6 +12,8 @@ import { createTestUser, testConfig, type TestUser } from '../support/test-app'
 import { insertTestPatient, insertTestVisit } from '../support/fixtures'
 import { smallPhantomFiles } from '../support/phantom-files'
 import { launchBrowser, screenshotPath, startAppServer } from '../support/browser'
+import { pdfPageTexts } from '../support/pdf-text'
+import { REPORT_CAUTIONS } from '../../shared/reports/cautions'
 
 let db: Db
 let browser: BrowserContext
@@ -211,6 +213,71 @@ describe('Compare in Chromium', () => {
     expect(await page.locator('[data-side="after"]').locator('..').innerText()).toMatch(
       /Lumbar alignment, awaiting sign-off/,
     )
+    await page.close()
+  })
+
+  it('prints the comparison, and the reading with the same content as its PDF', async () => {
+    const page = await browser.newPage()
+    await page.goto(
+      `${server.url}/patients/${patientId}/compare?images=${preOpReading.imageId},${postOpReading.imageId}`,
+    )
+    await waitForFilms(page)
+    const [printable] = await Promise.all([
+      browser.waitForEvent('page'),
+      page.getByRole('button', { name: 'Print' }).click(),
+    ])
+    await printable.locator('.report-table').first().waitFor()
+    // The page's image element; the server's tsconfig has no DOM types.
+    type Loading = { complete: boolean; addEventListener(type: 'load', done: () => void): void }
+    await printable
+      .locator('.report-film img')
+      .first()
+      .evaluate((image: Loading) =>
+        image.complete
+          ? undefined
+          : new Promise<void>((resolve) => image.addEventListener('load', resolve)),
+      )
+    const text = await printable.locator('.report-page').innerText()
+    expect(text).toMatch(
+      /L4-L5 · Segmental lordosis\s+19\.0° ± \d+\.\d°\s+27\.0° ± \d+\.\d°\s+\+8\.0° ± \d+\.\d°/,
+    )
+    for (const caution of REPORT_CAUTIONS) expect(text).toContain(caution)
+    expect(await printable.getByTestId('report-stamp').innerText()).toBe('NOT ALL READINGS SIGNED')
+    await printable.screenshot({ path: screenshotPath('compare-printable'), fullPage: true })
+    await printable.emulateMedia({ media: 'print' })
+    expect(await printable.locator('.app-header').isVisible()).toBe(false)
+    expect(await printable.locator('.print-toolbar').isVisible()).toBe(false)
+    await printable.screenshot({
+      path: screenshotPath('compare-printable-print-media'),
+      fullPage: true,
+    })
+    // What "Print" gives on paper (the browser's own PDF), kept for a human look.
+    await printable.pdf({
+      path: screenshotPath('compare-printed').replace(/\.png$/, '.pdf'),
+      preferCSSPageSize: true,
+    })
+    await printable.close()
+
+    // The reading's printable page and its PDF carry the same words and numbers.
+    await page.goto(`${server.url}/readings/${postOpReading.id}`)
+    const [readingPage] = await Promise.all([
+      browser.waitForEvent('page'),
+      page.getByRole('button', { name: 'Print' }).click(),
+    ])
+    await readingPage.locator('.report-table').first().waitFor()
+    const rows = await readingPage
+      .locator('[data-table="results-alignment"] tbody tr')
+      .evaluateAll((trs) => trs.map((tr) => [...tr.children].map((td) => td.textContent ?? '')))
+    expect(rows.length).toBeGreaterThan(5)
+    const pdf = await browser.request.get(
+      `${server.url}/api/readings/${postOpReading.id}/report.pdf`,
+    )
+    expect(pdf.status()).toBe(200)
+    const pdfText = (await pdfPageTexts(await pdf.body())).join(' ').replace(/\s+/g, ' ')
+    for (const cells of rows)
+      for (const cell of cells.slice(0, 4)) expect(pdfText).toContain(cell.trim())
+    await readingPage.screenshot({ path: screenshotPath('reading-printable'), fullPage: true })
+    await readingPage.close()
     await page.close()
   })
 })

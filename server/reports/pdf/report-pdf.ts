@@ -1,11 +1,7 @@
 import PDFDocument from 'pdfkit'
 import { OVERLAY_COLOURS } from '../../../shared/overlays/overlay-shapes'
-import type {
-  Report,
-  ReportFilm,
-  ReportReading,
-  ReportSignOff,
-} from '../../../shared/types/reports'
+import { signOffTable } from '../../../shared/reports/report-tables'
+import type { Report, ReportFilm, ReportReading } from '../../../shared/types/reports'
 import type { ComposedFilm } from '../report-film-image'
 import { COLOURS, CONTENT_WIDTH, ensureSpace, PAGE } from './pdf-layout'
 import { drawTable } from './pdf-table'
@@ -95,27 +91,6 @@ function drawFilm(doc: PDFKit.PDFDocument, film: ReportFilm, composed: ComposedF
   doc.y = below + 10
 }
 
-function drawSignOff(doc: PDFKit.PDFDocument, signOff: ReportSignOff): void {
-  drawTable(doc, {
-    id: 'sign-off',
-    title: 'Rater and sign-off',
-    columns: ['Rater', 'Status', 'Submitted', 'Signed by', 'Signed'],
-    widths: [24, 20, 18, 20, 18],
-    rows: [
-      {
-        cells: [
-          signOff.rater,
-          signOff.status,
-          signOff.submittedAt ?? '—',
-          signOff.signer ?? 'not signed',
-          signOff.signedAt ?? '—',
-        ],
-      },
-    ],
-    notes: [],
-  })
-}
-
 function drawReading(
   doc: PDFKit.PDFDocument,
   reading: ReportReading,
@@ -131,7 +106,7 @@ function drawReading(
     if (composed) drawFilm(doc, film, composed)
   }
   for (const table of reading.tables) drawTable(doc, table)
-  drawSignOff(doc, reading.signOff)
+  drawTable(doc, signOffTable(reading.signOff))
 }
 
 function drawCautions(doc: PDFKit.PDFDocument, cautions: readonly string[]): void {
@@ -237,6 +212,12 @@ export async function renderReportPdf(
   })
   registerReportFonts(doc)
   drawHeader(doc, report)
+  if (report.readings.length === 0)
+    doc.y +=
+      writeText(doc, "No reading of this visit's films yet.", PAGE.left, doc.y, {
+        size: 9,
+        color: COLOURS.muted,
+      }) + 8
   for (const reading of report.readings) drawReading(doc, reading, films)
   if (report.kind === 'visit') {
     for (const comparison of report.comparisons) {
