@@ -27,7 +27,6 @@ export function writeText(
     align: style.align ?? 'left',
     lineGap: style.lineGap ?? 1,
   }
-  const height = textHeight(doc, text, style)
   doc.fillColor(style.color ?? '#1e2226').fontSize(style.size)
   runs.forEach((run, index) => {
     doc.font(run.font)
@@ -36,16 +35,28 @@ export function writeText(
     else doc.text(run.text, { ...options, continued })
   })
   if (runs.length === 0) doc.text('', x, y, options)
-  return height
+  // pdfkit leaves the cursor under the text it wrote.
+  return doc.y - y
 }
+
+// Measurements do not depend on the document: kept for the process (bounded) so that every
+// report does not lay out the same labels and values again.
+const heights = new Map<string, number>()
+const HEIGHT_CACHE_LIMIT = 20_000
 
 /** Height of text set in a width, pt (measured in the Latin subset's metrics). */
 export function textHeight(doc: PDFKit.PDFDocument, text: string, style: TextStyle): number {
+  const key = `${style.weight ?? 400}|${style.size}|${style.width}|${style.lineGap ?? 1}|${text}`
+  const known = heights.get(key)
+  if (known !== undefined) return known
   doc.font(`inter-latin-${style.weight ?? 400}`).fontSize(style.size)
-  return doc.heightOfString(writableText(text) || ' ', {
+  const height = doc.heightOfString(writableText(text) || ' ', {
     width: style.width,
     lineGap: style.lineGap ?? 1,
   })
+  if (heights.size >= HEIGHT_CACHE_LIMIT) heights.clear()
+  heights.set(key, height)
+  return height
 }
 
 /** Width of one line of text, pt. */

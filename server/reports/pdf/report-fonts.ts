@@ -1,10 +1,14 @@
 import { readFileSync } from 'node:fs'
 import { createRequire } from 'node:module'
 import { dirname, join } from 'node:path'
+import { create, type Font } from 'fontkit'
+import { woffToSfnt } from './woff-to-sfnt'
 
 /**
- * Inter from the app's own @fontsource files: pdfkit (through fontkit) reads WOFF directly, so
- * nothing is converted and nothing comes from the network. @fontsource cuts Inter into subsets by
+ * Inter from the app's own @fontsource WOFF files, unpacked in memory to plain OpenType once per
+ * process (woffToSfnt; nothing comes from the network) and parsed once by fontkit, pdfkit's font
+ * engine; every document gets the same parsed fonts (pdfkit takes a fontkit font as well as a
+ * file) and embeds only the glyphs it uses. @fontsource cuts Inter into subsets by
  * script (latin, latin-ext, greek, cyrillic, vietnamese) and pdfkit has no font fallback, so text
  * is split into runs, each set in the subset that holds its characters. Written here because no
  * maintained library does per-character font fallback for pdfkit.
@@ -59,22 +63,29 @@ const SUBSET_RANGES: Subset[] = SUBSETS.filter((name) => RANGES[name]).map((name
 /** The pdfkit font name of a subset and weight. */
 export const fontName = (subset: string, weight: FontWeight) => `inter-${subset}-${weight}`
 
-const fileCache = new Map<string, Buffer>()
-function fontFile(subset: string, weight: FontWeight): Buffer {
+const fontCache = new Map<string, Font>()
+function fontOf(subset: string, weight: FontWeight): Font {
   const key = fontName(subset, weight)
-  let buffer = fileCache.get(key)
-  if (!buffer) {
-    buffer = readFileSync(join(FONT_DIR, `inter-${subset}-${weight}-normal.woff`))
-    fileCache.set(key, buffer)
+  let font = fontCache.get(key)
+  if (!font) {
+    const woff = readFileSync(join(FONT_DIR, `inter-${subset}-${weight}-normal.woff`))
+    font = create(woffToSfnt(woff))
+    fontCache.set(key, font)
   }
-  return buffer
+  return font
 }
 
-/** Registers every subset and weight on a document (files are read once per process). */
+/**
+ * Registers every subset and weight on a document. Files are read and parsed once per process;
+ * pdfkit embeds only the glyphs a document uses.
+ */
 export function registerReportFonts(doc: PDFKit.PDFDocument): void {
-  for (const { name } of SUBSET_RANGES)
-    for (const weight of [400, 600] as const)
-      doc.registerFont(fontName(name, weight), fontFile(name, weight))
+  for (const { name } of SUBSET_RANGES) {
+    for (const weight of [400, 600] as const) {
+      // pdfkit's types name files and buffers; at run time it also takes a fontkit font.
+      doc.registerFont(fontName(name, weight), fontOf(name, weight) as unknown as Buffer)
+    }
+  }
 }
 
 function subsetOf(codePoint: number): string | null {
