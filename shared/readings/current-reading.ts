@@ -1,13 +1,13 @@
 import type { ReadingStatus } from '../types/domain'
 
 /**
- * How strongly each status makes a reading the one that stands for its film; higher wins, null
- * never stands. A signed reading is the record; a submitted one has been finished by its rater; a
- * draft is work in progress. A status added later must be given a rank here (the type makes the
- * compiler ask): a reading sent back for changes could rank with a draft, and a reading replaced
- * by an amendment must be null.
+ * How strongly each status makes a reading the one that stands for its film; higher wins. A
+ * signed reading is the record; a submitted one has been finished by its rater; a draft is work
+ * in progress. A status without a rank never stands for a film, so a status added later is safe
+ * until it is ranked here: a reading sent back for changes might rank with a draft, while a
+ * reading replaced by an amendment must stay out.
  */
-export const CURRENT_READING_RANK: Readonly<Record<ReadingStatus, number | null>> = {
+export const CURRENT_READING_RANK: Readonly<Partial<Record<ReadingStatus, number>>> = {
   signed: 3,
   submitted: 2,
   draft: 1,
@@ -21,10 +21,10 @@ export interface CurrentReadingCandidate {
   supersedesId: number | null
 }
 
-/** The rank of a status; a status this build does not know never stands for a film. */
+/** The rank of a status; a status without one never stands for a film (null). */
 export function currentReadingRank(status: string): number | null {
   return Object.hasOwn(CURRENT_READING_RANK, status)
-    ? CURRENT_READING_RANK[status as ReadingStatus]
+    ? (CURRENT_READING_RANK[status as ReadingStatus] ?? null)
     : null
 }
 

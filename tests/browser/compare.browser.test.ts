@@ -120,6 +120,9 @@ describe('Compare in Chromium', () => {
   it('opens the usual pair from the patient screen with both readings and the table', async () => {
     const page = await browser.newPage()
     await page.goto(`${server.url}/patients/${patientId}`)
+    const launcher = page.getByRole('region', { name: 'Compare films' })
+    await launcher.getByRole('link', { name: /Pre-op against post-op/ }).waitFor()
+    await launcher.screenshot({ path: screenshotPath('patient-compare-launcher') })
     await page.getByRole('link', { name: /Pre-op against post-op/ }).click()
     await page.waitForURL(/\/compare\?images=/)
     await waitForFilms(page)
@@ -207,6 +210,8 @@ describe('Compare in Chromium', () => {
     await page.goto(`${server.url}/readings/${postOpReading.id}`)
     await page.getByRole('button', { name: 'Compare' }).click()
     await page.waitForURL(/\/compare\?images=\d+&readings=/)
+    await page.getByRole('button', { name: 'Pre-op against post-op' }).waitFor()
+    await page.screenshot({ path: screenshotPath('compare-choose-partner') })
     await page.getByRole('button', { name: 'Pre-op against post-op' }).click()
     await waitForFilms(page)
     expect(page.url()).toContain(`readings=${postOpReading.id}`)
