@@ -10,6 +10,9 @@ import { TABLES } from '../../server/db/tables'
 import { findReading, signSubmittedReading } from '../../server/db/readings'
 import { insertVisit } from '../../server/db/visits'
 import type { PhantomParamsInput } from '../../server/phantom/phantom-params'
+import { flexionExtensionPair } from '../../server/phantom/motion-pair'
+import { templateLandmarks } from '../../shared/readings/templates'
+import type { PixelPoint } from '../../shared/types/landmarks'
 import { computeMeasurements } from '../../shared/measurement'
 import type { Comparison, DifferenceRow } from '../../shared/types/compare'
 import type { Role, VisitKind } from '../../shared/types/domain'
@@ -260,5 +263,67 @@ describe('GET /api/comparisons', () => {
     expect((await compare(`images=${preOp},${postOp}&readings=999999`)).status).toBe(400)
     // The administrator reads no patient data.
     expect((await compare(`images=${preOp},${postOp}`, users.admin)).status).toBe(403)
+  })
+
+  it('sets flexion against extension with the motion-pair reading on both films', async () => {
+    // Invented dynamic films: 14° of motion and 12 % of translation at L4-L5 (server/phantom).
+    const pair = flexionExtensionPair(
+      { segments: { 'L4-L5': { slipPercent: 9 } } },
+      { segment: 'L4-L5', angularRangeDeg: 14, translationPercent: 12 },
+    )
+    const upload = async (params: PhantomParamsInput, view: string) => {
+      const files = await smallPhantomFiles(params)
+      const res = await request(app)
+        .post(`/api/visits/${visits['pre-op']}/images`)
+        .set('Cookie', users.fellow.cookie)
+        .field('view', view)
+        .field('confirmPatientMismatch', 'true')
+        .attach('file', files.dicom, `${view}.dcm`)
+      expect(res.status).toBe(201)
+      return { id: res.body[0].id as number, truth: files.film.landmarks.points }
+    }
+    const flexion = await upload(pair.flexion, 'lateral-flexion')
+    const extension = await upload(pair.extension, 'lateral-extension')
+    const names = templateLandmarks('motion-pair', { segment: 'L4-L5' }).map((spec) => spec.name)
+    const on = (truth: Record<string, PixelPoint>) =>
+      Object.fromEntries(names.map((name) => [name, truth[name] as PixelPoint]))
+    const created = await request(app)
+      .post(`/api/images/${flexion.id}/readings`)
+      .set('Cookie', users.fellow.cookie)
+      .send({
+        template: 'motion-pair',
+        options: { segment: 'L4-L5' },
+        pairedImageId: extension.id,
+        points: on(flexion.truth),
+      })
+    expect(created.status).toBe(201)
+    const saved = await request(app)
+      .patch(`/api/readings/${created.body.id}`)
+      .set('Cookie', users.fellow.cookie)
+      .send({
+        points: on(flexion.truth),
+        pairedPoints: on(extension.truth),
+        version: created.body.version,
+      })
+    expect(saved.status).toBe(200)
+
+    const comparison = (await compare(`images=${extension.id},${flexion.id}`)).body as Comparison
+    expect(comparison.table.kind).toBe('flexion-extension')
+    expect(comparison.before).toMatchObject({ side: 'primary', image: { id: flexion.id } })
+    expect(comparison.after).toMatchObject({ side: 'paired', image: { id: extension.id } })
+    expect(comparison.after.points).toEqual(on(extension.truth))
+    // The extension film's own measures, with intervals, computed from the stored landmarks.
+    const lordosis = rowOf(comparison, 'L4-L5-lordosis')
+    expect(lordosis.change?.value).toBeCloseTo(14, 3)
+    expect(lordosis.after?.halfWidth95).toBeGreaterThan(0)
+    expect(rowOf(comparison, 'L4-L5-slip').change?.value).toBeCloseTo(-12, 3)
+    // Motion as the reading stored it (reference §6), once although both films carry the reading.
+    expect(comparison.table.motion).toHaveLength(1)
+    expect(comparison.table.motion[0]).toMatchObject({
+      readingId: created.body.id,
+      segment: 'L4-L5',
+    })
+    expect(comparison.table.motion[0]!.rangeOfMotionDeg).toBeCloseTo(14, 3)
+    expect(comparison.table.plan).toEqual([])
   })
 })
