@@ -1,24 +1,47 @@
 import { fileURLToPath } from 'node:url'
 import type { Knex } from 'knex'
 import { config } from './server/config'
+import { applyQueryTimeout, type DbTimeouts } from './server/db/timeouts'
 
 const here = (relative: string) => fileURLToPath(new URL(relative, import.meta.url))
 
-function connectionFor(database: string): Knex.Config {
+export interface ConnectionOptions {
+  /** Another MariaDB than the project's (a test's private instance). */
+  port?: number
+  /**
+   * The API's timeouts (server/db/timeouts.ts). Null for maintenance (migrations, seeds, the
+   * knex command line), whose statements may legitimately run long.
+   */
+  timeouts?: DbTimeouts | null
+}
+
+function connectionFor(database: string, options: ConnectionOptions = {}): Knex.Config {
+  const timeouts = options.timeouts ?? null
   return {
     client: 'mysql2',
     // No charset here: it would force utf8mb4_general_ci; the database is created utf8mb4_unicode_ci.
     connection: {
       host: config.DB_HOST,
-      port: config.DB_PORT,
+      port: options.port ?? config.DB_PORT,
       user: config.DB_USER,
       password: config.DB_PASSWORD,
       database,
       // Keep DATETIME values in UTC end to end.
       timezone: 'Z',
       dateStrings: false,
+      ...(timeouts ? { connectTimeout: timeouts.connectMs } : {}),
     },
-    pool: { min: 0, max: 10 },
+    pool: {
+      min: 0,
+      max: 10,
+      ...(timeouts
+        ? {
+            afterCreate: applyQueryTimeout(timeouts),
+            createTimeoutMillis: timeouts.connectMs + 1_000,
+          }
+        : {}),
+    },
+    ...(timeouts ? { acquireConnectionTimeout: timeouts.acquireMs } : {}),
     migrations: {
       directory: here('./migrations'),
       extension: 'ts',

@@ -23,7 +23,8 @@ export async function seed(knex: Knex): Promise<void> {
   const surgeonId = userIds.get('rhea.calloway@endplate.example') as number
   const researcherId = userIds.get('mei.arkwright@endplate.example') as number
 
-  const [studyId] = await knex(TABLES.studies).insert({ ...DEMO_STUDY, created_by: researcherId })
+  // Surgeons set studies up; the researcher works in it as a member.
+  const [studyId] = await knex(TABLES.studies).insert({ ...DEMO_STUDY, created_by: surgeonId })
   await knex(TABLES.studyMembers).insert({ study_id: studyId, user_id: researcherId })
 
   for (const patient of DEMO_PATIENTS) {

@@ -58,6 +58,7 @@ export async function seed(knex: Knex): Promise<void> {
       ],
       views: [],
       confirmPatientMismatch: false,
+      workDir: tmpDir,
     })
   }
 }

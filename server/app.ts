@@ -24,6 +24,9 @@ import { readingsRouter } from './routes/readings'
 import { plansRouter } from './routes/plans'
 import { comparisonsRouter } from './routes/comparisons'
 import { reportsRouter } from './routes/reports'
+import { studiesRouter } from './routes/studies'
+import { exportsRouter } from './routes/exports'
+import { imageDicomRouter } from './routes/image-dicom'
 import { createLocalFileStore } from './storage/local-file-store'
 import type { FileStore } from './storage/file-store'
 import { projectRoot } from './project-root'
@@ -106,6 +109,7 @@ export function createApp({
       store,
       uploadTmpDir: join(config.uploadDirAbsolute, 'tmp'),
       uploadMaxMb: config.UPLOAD_MAX_MB,
+      uploadQueueLimit: config.UPLOAD_QUEUE_LIMIT,
     }),
   )
   api.use('/images', imagesRouter(db, store))
@@ -115,6 +119,10 @@ export function createApp({
   api.use('/measurements', measurementsRouter())
   api.use('/comparisons', comparisonsRouter(db))
   api.use(reportsRouter(db, store))
+  api.use('/studies', studiesRouter(db))
+  api.use('/exports', exportsRouter(db))
+  // UIDs of de-identified films are keyed by the server secret, so they cannot be traced back.
+  api.use('/images', imageDicomRouter(db, store, config.JWT_SECRET))
   api.use(notFoundHandler)
   app.use('/api', api)
 

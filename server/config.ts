@@ -31,6 +31,7 @@ const envSchema = z.object({
     .default('endplate'),
   DB_PASSWORD: z.string().min(1),
   DB_DATA_DIR: z.string().default('.data/mariadb'),
+  DB_QUERY_TIMEOUT_MS: z.coerce.number().int().min(500).max(600_000).default(5_000),
   JWT_SECRET: z.string().min(16, 'JWT_SECRET must be at least 16 characters'),
   SESSION_MINUTES: z.coerce
     .number()
@@ -42,6 +43,7 @@ const envSchema = z.object({
   LOGIN_RATE_LIMIT_PER_MINUTE: z.coerce.number().int().min(1).default(20),
   UPLOAD_DIR: z.string().default('uploads'),
   UPLOAD_MAX_MB: z.coerce.number().positive().default(100),
+  UPLOAD_QUEUE_LIMIT: z.coerce.number().int().min(1).default(100),
   SMTP_HOST: z.string().default('127.0.0.1'),
   SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(4782),
   MAIL_FROM: z.string().default('Endplate <endplate@clinic.invalid>'),

@@ -146,6 +146,7 @@ async function benchUploadService(dicom: Buffer): Promise<void> {
             files: [{ path, size: dicom.length, sha256, originalName: 'bench.dcm' }],
             views: ['lateral-neutral'],
             confirmPatientMismatch: true,
+            workDir: join(root, 'tmp'),
           }),
         ),
       )

@@ -4,7 +4,7 @@
 // bench database of its own. Target: under 1.5 s. Also the peak memory while reports are made.
 // Prints figures only; no assertions.
 import { createHash } from 'node:crypto'
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs'
+import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { config } from '../config'
@@ -61,6 +61,7 @@ async function filmWithReading(
     ],
     views: [view],
     confirmPatientMismatch: true,
+    workDir: join(root, 'tmp'),
   })
   const truth = film.landmarks.points
   const points: Record<string, PixelPoint> = {}
@@ -79,6 +80,7 @@ export async function run(): Promise<void> {
   const db = await openMigratedDatabase(config, `${config.DB_NAME}_bench`)
   const root = mkdtempSync(join(tmpdir(), 'endplate-bench-reports-'))
   const store = createLocalFileStore(join(root, 'store'))
+  mkdirSync(join(root, 'tmp'))
   try {
     await truncateAllTables(db)
     const userId = await insertUser(db, {

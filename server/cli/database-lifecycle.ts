@@ -39,7 +39,8 @@ export async function migrateLatest(db: Db): Promise<void> {
 
 /** Opens a database, runs a function, and always closes the pool. */
 export async function withDb<T>(database: string, work: (db: Db) => Promise<T>): Promise<T> {
-  const db = createDb(database)
+  // Maintenance (migrations, seeds): no statement timeout, a migration may run long.
+  const db = createDb(database, { timeouts: null })
   try {
     return await work(db)
   } finally {
@@ -68,9 +69,13 @@ export async function openMigratedDatabase(config: AppConfig, name: string): Pro
   } finally {
     await admin.destroy()
   }
-  const db = createDb(name)
-  await db.migrate.latest()
-  return db
+  const maintenance = createDb(name, { timeouts: null })
+  try {
+    await maintenance.migrate.latest()
+  } finally {
+    await maintenance.destroy()
+  }
+  return createDb(name)
 }
 
 /** Empties every table, children first: a scratch database back to nothing. */

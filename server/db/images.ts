@@ -15,6 +15,8 @@ export interface StoredDicomAttributes {
   studyDate: string | null
   acquisitionDate: string | null
   patient: { name: string | null; id: string | null; birthDate: string | null; sex: string | null }
+  /** Patient Orientation (0020,0020): row then column direction; absent in older records. */
+  patientOrientation?: [row: string, column: string] | null
 }
 
 export interface ImageRow {
@@ -108,6 +110,30 @@ export async function countImagesWithHash(db: Db, contentHash: string): Promise<
     .where({ content_hash: contentHash })
     .count({ count: '*' })) as [{ count: number | string }]
   return Number(count)
+}
+
+const STORED_PATH_COLUMNS = [
+  'original_path',
+  'display_path',
+  'preview_path',
+  'thumbnail_path',
+  'full_depth_path',
+] as const
+
+/** Every stored key that image rows reference, by content hash (all hashes, or the given one). */
+export async function referencedKeysByHash(
+  db: Db,
+  contentHash?: string,
+): Promise<Map<string, Set<string>>> {
+  const query = db(TABLES.images).select('content_hash', ...STORED_PATH_COLUMNS)
+  if (contentHash !== undefined) query.where({ content_hash: contentHash })
+  const keys = new Map<string, Set<string>>()
+  for (const row of (await query) as Array<Record<string, string>>) {
+    const set = keys.get(row.content_hash as string) ?? new Set<string>()
+    for (const column of STORED_PATH_COLUMNS) set.add(row[column] as string)
+    keys.set(row.content_hash as string, set)
+  }
+  return keys
 }
 
 export type NewImage = Omit<ImageRow, 'id' | 'version' | 'createdAt' | 'manualCalibration'>

@@ -114,6 +114,8 @@ export interface PatientSearch {
   /** Search only the pseudonym (researchers must not be able to probe names). */
   studyCodeOnly: boolean
   researcherId?: number
+  /** Only the patients of this study. */
+  studyId?: number
   sort: PatientSortField
   order: 'asc' | 'desc'
   offset: number
@@ -130,6 +132,12 @@ export async function searchPatients(
 ): Promise<{ items: PatientRecord[]; total: number }> {
   const query = selectPatients(db)
   if (search.researcherId !== undefined) scopeToResearcher(db, query, search.researcherId)
+  if (search.studyId !== undefined) {
+    query.whereIn(
+      'p.id',
+      db(TABLES.studyPatients).where('study_id', search.studyId).select('patient_id'),
+    )
+  }
   const q = search.q?.trim()
   if (q) {
     const like = `%${escapeLike(q)}%`

@@ -19,10 +19,12 @@ export const TABLES = {
   siteSettings: 'site_settings',
   mailOutbox: 'mail_outbox',
   revokedSessions: 'revoked_sessions',
+  filmFiles: 'film_files',
 } as const
 
 /** Child tables before parents: the order to truncate or delete in. */
 export const TABLES_CHILDREN_FIRST = [
+  TABLES.filmFiles,
   TABLES.revokedSessions,
   TABLES.mailOutbox,
   TABLES.auditEvents,

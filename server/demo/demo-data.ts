@@ -315,4 +315,5 @@ export const DEMO_PATIENTS: DemoPatient[] = [
 export const DEMO_STUDY = {
   name: 'Slip progression and sagittal alignment cohort',
   description: 'De-identified cohort for slip grading reliability and alignment after surgery.',
+  note: 'Invented demo study. Films are synthetic phantoms; every patient here is invented.',
 }

@@ -74,6 +74,17 @@ export const DEMO_FILMS: DemoFilm[] = [
   },
   {
     patientKey: 'hybrid',
+    visitIndex: 1,
+    preset: 'hybrid-post-op-ap',
+    seed: 24,
+    reading: {
+      template: 'implant-centring',
+      options: { discReplacements: ['L3-L4', 'L4-L5'] },
+      submit: true,
+    },
+  },
+  {
+    patientKey: 'hybrid',
     visitIndex: 2,
     preset: 'hybrid-one-year',
     seed: 23,

@@ -12,6 +12,7 @@ export type ImageErrorCode =
   | 'corrupt-image'
   | 'zero-size-image'
   | 'too-many-pixels'
+  | 'exceeds-decode-limit'
 
 export class ImageError extends Error {
   readonly code: ImageErrorCode

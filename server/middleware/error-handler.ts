@@ -2,6 +2,10 @@ import type { ErrorRequestHandler } from 'express'
 import { ZodError } from 'zod'
 import { HttpError } from '../errors'
 import { zodDetails } from '../schemas/zod-details'
+import { isDatabaseUnreachable, isLockContention } from '../db/unavailable'
+
+/** Seconds a client is asked to wait before trying again after a 503. */
+export const RETRY_AFTER_SECONDS = 5
 
 interface MysqlError {
   code?: string
@@ -24,6 +28,46 @@ interface BodyParserError {
   type?: string
   status?: number
   expose?: boolean
+  charset?: string
+  encoding?: string
+}
+
+/**
+ * body-parser's refusals (http-errors with a 4xx status and `expose`) in our own words: a body
+ * that could not be read is the client's mistake, never a 500.
+ */
+function bodyParserRefusal(error: unknown): HttpError | null {
+  if (typeof error !== 'object' || error === null) return null
+  const parserError = error as BodyParserError
+  const status = parserError.status
+  if (parserError.expose !== true || typeof status !== 'number' || status < 400 || status >= 500)
+    return null
+  switch (parserError.type) {
+    case 'entity.parse.failed':
+      return new HttpError(400, 'malformed_json', 'The request body is not valid JSON.')
+    case 'entity.too.large':
+      return new HttpError(413, 'too_large', 'The request body is too large.')
+    // RFC 8259 §8.1: JSON between systems is UTF-8.
+    case 'charset.unsupported':
+      return new HttpError(
+        415,
+        'unsupported_charset',
+        `Send JSON as UTF-8 (Content-Type: application/json; charset=utf-8), not ${String(parserError.charset ?? 'another charset').toUpperCase()}.`,
+      )
+    // RFC 9110 §8.4.1: a content coding the server does not know is a 415.
+    case 'encoding.unsupported':
+      return new HttpError(
+        415,
+        'unsupported_encoding',
+        `The Content-Encoding "${parserError.encoding ?? ''}" is not accepted: send the body uncompressed, or as gzip, deflate or br.`,
+      )
+    default:
+      return new HttpError(
+        400,
+        'unreadable_body',
+        'The request body could not be read: it was cut short, or its Content-Encoding does not match its bytes.',
+      )
+  }
 }
 
 /** Maps every failure to `{ error: { code, message, details? } }`; logs what was unexpected. */
@@ -64,17 +108,30 @@ export function errorHandler(exposeInternals: boolean): ErrorRequestHandler {
       })
       return
     }
-    const parserError = error as BodyParserError
-    if (parserError.type === 'entity.parse.failed') {
-      res
-        .status(400)
-        .json({ error: { code: 'malformed_json', message: 'The request body is not valid JSON.' } })
+    if (isDatabaseUnreachable(error)) {
+      req.log?.warn({ code: (error as { code?: string }).code }, 'database unreachable')
+      res.setHeader('Retry-After', String(RETRY_AFTER_SECONDS))
+      res.status(503).json({
+        error: {
+          code: 'database_unavailable',
+          message: `The database is not answering right now. Try again in ${RETRY_AFTER_SECONDS} seconds; if this goes on, tell your administrator.`,
+        },
+      })
       return
     }
-    if (parserError.type === 'entity.too.large') {
-      res
-        .status(413)
-        .json({ error: { code: 'too_large', message: 'The request body is too large.' } })
+    if (isLockContention(error)) {
+      res.setHeader('Retry-After', '1')
+      res.status(503).json({
+        error: {
+          code: 'busy',
+          message: 'Someone else was changing the same records at that moment. Try again.',
+        },
+      })
+      return
+    }
+    const refusal = bodyParserRefusal(error)
+    if (refusal) {
+      res.status(refusal.status).json({ error: { code: refusal.code, message: refusal.message } })
       return
     }
     req.log?.error({ err: error }, 'unhandled error')

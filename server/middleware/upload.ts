@@ -66,11 +66,34 @@ export function safeDisplayName(name: string): string {
   return cleaned.slice(0, 255) || 'unnamed'
 }
 
+// RFC 2046 §5.1.1: the boundary is 1 to 70 characters, quoted or a bare token.
+const BOUNDARY_PARAMETER = /;\s*boundary=(?:"[^"]{1,70}"|[^\s;"]{1,70})\s*(?:;|$)/i
+
+/**
+ * Refuses, in our own words and before any byte is read, a multipart upload whose type carries
+ * no boundary (RFC 7578 §4.1), which busboy would throw on. A body that is not multipart at all
+ * passes: multer skips it and the service answers that no file was attached.
+ */
+function requireMultipartBoundary(req: Request): void {
+  const type = req.get('content-type') ?? ''
+  if (/^\s*multipart\//i.test(type) && !BOUNDARY_PARAMETER.test(type)) {
+    throw new HttpError(
+      400,
+      'upload_refused',
+      'The upload names no multipart boundary (Content-Type: multipart/form-data; boundary=...), so its parts cannot be read.',
+    )
+  }
+}
+
 export function filmUpload(tmpDir: string, maxMegabytes: number): RequestHandler {
-  return multer({
+  const parse = multer({
     storage: hashingDiskStorage(tmpDir),
     limits: { fileSize: Math.round(maxMegabytes * 1024 * 1024), files: 20, fields: 50 },
   }).array('file', 20)
+  return (req, res, next) => {
+    requireMultipartBoundary(req)
+    parse(req, res, next)
+  }
 }
 
 export function uploadsOf(files: unknown): StreamedUpload[] {

@@ -2,6 +2,7 @@ import { LUMBAR_LEVELS, type PhantomParams } from './phantom-params'
 import type { FilmPlacement } from './film-placement'
 import type { ImplantGeometry, SpineGeometry, VertebraCorners } from './spine-geometry'
 import { add, along, length, mid, perpendicular, scale, sub, unit, type Vec2 } from './vec2'
+import { boneWithCortex } from './cortex-svg'
 
 // The film is drawn as attenuation: brighter = more bone or metal, as on a MONOCHROME2 radiograph.
 // Overlapping structures are semi-transparent white so their densities add up, roughly as X-ray
@@ -227,9 +228,9 @@ ${soft(iliumX, iliumY, 110, 85, 0.16, 'glow')}
 ${femoralMarkup(p, fh2, params.femoralHeadRadiusMm)}
 ${femoralMarkup(p, fh1, params.femoralHeadRadiusMm)}
 ${LUMBAR_LEVELS.map((level) => `<path d="${posteriorElementsPath(p, geometry.vertebrae[level])}" fill="#ffffff" fill-opacity="0.12" stroke="#ffffff" stroke-opacity="0.2" stroke-width="${p.px(1)}" stroke-linejoin="round"/>`).join('\n')}
-<path d="${sacrumPath(p, geometry)}" fill="url(#trabecular)" fill-opacity="0.8" stroke="#d0d0d0" stroke-width="${p.px(1.5)}" stroke-linejoin="round"/>
+${boneWithCortex({ id: 'bone-S1', d: sacrumPath(p, geometry), cortexPx: placement.px(1.5), fillOpacity: 0.8, rimColour: '#d0d0d0', marrow: false })}
 ${sacralSegmentLines(p, geometry)}
-${bodies.map((d) => `<path d="${d}" fill="url(#trabecular)" stroke="#e0e0e0" stroke-width="${p.px(1.5)}" stroke-linejoin="round"/><path d="${d}" fill="url(#marrow)"/>`).join('\n')}
+${bodies.map((d, i) => boneWithCortex({ id: `bone-${LUMBAR_LEVELS[i]}`, d, cortexPx: placement.px(1.5) })).join('\n')}
 ${geometry.implants.map((implant) => implantMarkup(p, implant)).join('\n')}
 </svg>`
 }

@@ -40,6 +40,35 @@ export interface ImplantSpec {
   positionPercent: number
   /** Footprint along the endplate, % of its depth. */
   footprintPercent: number
+  /**
+   * Frontal film only: the implant centre's offset from the body midline along the mean
+   * endplate direction, mm, positive toward the image's right edge (measurement-reference §11).
+   */
+  lateralOffsetMm: number
+  /** Frontal film only: the implant's angle against the mean endplate direction, degrees. */
+  coronalTiltDeg: number
+  /** Frontal film only: the implant's width, % of the mean endplate width. */
+  frontalWidthPercent: number
+}
+
+/**
+ * What a frontal (AP) film adds to the spine: the bodies' lateral widths, the coronal angle of
+ * each disc, the film's rotation in its own plane and the patient's axial rotation (seen as the
+ * spinous tips off the midline), and the Patient Orientation written into the DICOM file.
+ */
+export interface FrontalShape {
+  /** Width of each body's endplates, left to right (mm). */
+  bodyWidthMm: Record<LumbarLevel, number>
+  /** Width of the S1 superior endplate (mm). */
+  sacrumWidthMm: number
+  /** Angle of U's inferior endplate against W's superior endplate, degrees (positive: turned counter-clockwise as seen, opening toward the image's right). */
+  coronalAngleDeg: Record<SpineSegment, number>
+  /** The whole spine turned in the film plane, degrees clockwise as seen on the film. */
+  rotationDeg: number
+  /** Spinous process tips off the body midline toward the image's right, % of the half-width. */
+  spinousOffsetPercent: number
+  /** DICOM Patient Orientation (0020,0020) of the file; null writes none. */
+  patientOrientation: [row: string, column: string] | null
 }
 
 export interface PhantomPatient {
@@ -73,6 +102,8 @@ export interface PhantomParams {
   vertebrae: Record<LumbarLevel, VertebraShape>
   segments: Record<SpineSegment, SegmentShape>
   implants: ImplantSpec[]
+  /** Used when `view` is 'ap': the frontal film. */
+  frontal: FrontalShape
   /** Detector noise, SD as a fraction of the full 16-bit scale. */
   noise: number
   /** Gaussian blur sigma in pixels (focal spot, scatter). */
@@ -116,6 +147,16 @@ export const DEFAULT_PHANTOM_PARAMS: PhantomParams = {
     'L5-S1': { slipPercent: 0, segmentalAngleDeg: 18, posteriorDiscHeightMm: 6 },
   },
   implants: [],
+  // Typical adult lumbar body widths, increasing downward; an AP film hung as if facing the
+  // patient, so the image's right edge is the patient's left (rows toward L, columns toward F).
+  frontal: {
+    bodyWidthMm: { L1: 42, L2: 44, L3: 47, L4: 49, L5: 51 },
+    sacrumWidthMm: 50,
+    coronalAngleDeg: { 'L1-L2': 0, 'L2-L3': 0, 'L3-L4': 0, 'L4-L5': 0, 'L5-S1': 0 },
+    rotationDeg: 0,
+    spinousOffsetPercent: 0,
+    patientOrientation: ['L', 'F'],
+  },
   noise: 0.008,
   blurPx: 1.2,
   seed: 1,
@@ -165,7 +206,14 @@ export function resolvePhantomParams(
     if (!SPINE_SEGMENTS.includes(implant.segment as SpineSegment)) {
       throw new Error(`Implant segment must be one of ${SPINE_SEGMENTS.join(', ')}.`)
     }
-    return { positionPercent: 50, footprintPercent: 60, ...implant } as ImplantSpec
+    return {
+      positionPercent: 50,
+      footprintPercent: 60,
+      lateralOffsetMm: 0,
+      coronalTiltDeg: 0,
+      frontalWidthPercent: 72,
+      ...implant,
+    } as ImplantSpec
   })
   return params
 }

@@ -22,6 +22,37 @@ const HYBRID_IMPLANTS: PhantomParamsInput['implants'] = [
   { kind: 'disc-replacement', segment: 'L3-L4', positionPercent: 52 },
 ]
 
+/**
+ * The hybrid construct on the post-op AP film: the L3-L4 disc replacement close to the midline,
+ * the L4-L5 one 3.8 mm toward the image's right (the patient's left) and tilted, both invented;
+ * the film turned 2° and the patient a little rotated.
+ */
+const HYBRID_AP_IMPLANTS: PhantomParamsInput['implants'] = [
+  { kind: 'cage', segment: 'L5-S1', positionPercent: 48, footprintPercent: 62 },
+  {
+    kind: 'disc-replacement',
+    segment: 'L4-L5',
+    positionPercent: 46,
+    lateralOffsetMm: 3.8,
+    coronalTiltDeg: 3,
+  },
+  {
+    kind: 'disc-replacement',
+    segment: 'L3-L4',
+    positionPercent: 52,
+    lateralOffsetMm: -1.2,
+    coronalTiltDeg: 1,
+  },
+]
+
+/** A portrait AP film: the frontal spine and pelvis are taller than they are wide. */
+const AP_FILM: PhantomParamsInput = {
+  view: 'ap',
+  seriesDescription: 'LUMBAR SPINE AP',
+  widthPx: 2500,
+  heightPx: 3000,
+}
+
 const MOTION = flexionExtensionPair(
   {
     ...patient('PH-0401', 'PHANTOM^MOTION', '19750923', 'M'),
@@ -99,8 +130,28 @@ export const PHANTOM_PRESETS: Record<string, PhantomParamsInput> = {
     },
     implants: HYBRID_IMPLANTS,
   },
+  'hybrid-post-op-ap': {
+    ...HYBRID_PATIENT,
+    ...AP_FILM,
+    studyDate: '20250303',
+    segments: {
+      'L3-L4': { segmentalAngleDeg: 11, posteriorDiscHeightMm: 7 },
+      'L4-L5': { segmentalAngleDeg: 18, posteriorDiscHeightMm: 7.5 },
+      'L5-S1': { slipPercent: 6, segmentalAngleDeg: 21, posteriorDiscHeightMm: 8 },
+    },
+    frontal: {
+      rotationDeg: 2,
+      spinousOffsetPercent: 6,
+      coronalAngleDeg: { 'L3-L4': 1.5, 'L4-L5': -2 },
+    },
+    implants: HYBRID_AP_IMPLANTS,
+  },
   'motion-flexion': MOTION.flexion,
   'motion-extension': MOTION.extension,
+  // Harder films for the corner-suggestion bench: five times the detector noise, and a blur
+  // of 3.5 px (a large focal spot or motion), each on the normal spine.
+  noisy: { ...patient('PH-0501', 'PHANTOM^NOISY', '19800101', 'F'), noise: 0.04 },
+  blurred: { ...patient('PH-0502', 'PHANTOM^BLURRED', '19800101', 'M'), blurPx: 3.5 },
 }
 
 export function phantomPreset(name: string): PhantomParamsInput {

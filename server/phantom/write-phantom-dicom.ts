@@ -49,6 +49,10 @@ export function writePhantomDicom(
     PatientSex: params.patient.sex,
     BodyPartExamined: 'LSPINE',
     ViewPosition: params.view === 'ap' ? 'AP' : 'LL',
+    // Which patient sides the image's edges show (PS3.3 C.7.6.1.1.1); written for AP films.
+    ...(params.view === 'ap' && params.frontal.patientOrientation
+      ? { PatientOrientation: params.frontal.patientOrientation }
+      : {}),
     SeriesDescription: params.seriesDescription || SERIES_BY_VIEW[params.view],
     ImageType: ['DERIVED', 'SECONDARY'],
     PresentationIntentType: 'FOR PRESENTATION',

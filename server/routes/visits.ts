@@ -9,6 +9,7 @@ import { getVisit, loadVisibleVisit, patchVisit } from '../services/visits'
 import { actorOf } from './actor'
 import type { FileStore } from '../storage/file-store'
 import { filmUpload, uploadErrorHandler, uploadsOf } from '../middleware/upload'
+import { uploadAdmission } from '../middleware/upload-admission'
 import { uploadFields } from '../schemas/images'
 import { listVisitImages, uploadImages } from '../services/images'
 
@@ -16,6 +17,8 @@ export interface VisitsRouterOptions {
   store: FileStore
   uploadTmpDir: string
   uploadMaxMb: number
+  /** Uploads in flight at once; more are answered 503 with Retry-After. */
+  uploadQueueLimit: number
 }
 
 export function visitsRouter(db: Db, options: VisitsRouterOptions): Router {
@@ -49,11 +52,13 @@ export function visitsRouter(db: Db, options: VisitsRouterOptions): Router {
     },
   )
 
-  // Permission, id and the visit itself are checked before multer streams anything to disk.
+  // Permission, id, room in the upload queue and the visit itself are checked before multer
+  // streams anything to disk.
   router.post(
     '/:id/images',
     requirePermission('image:upload'),
     validate('params', idParam),
+    uploadAdmission(options.uploadQueueLimit),
     async (req, res, next) => {
       await loadVisibleVisit(db, actorOf(req), res.locals.params.id)
       next()
@@ -70,6 +75,7 @@ export function visitsRouter(db: Db, options: VisitsRouterOptions): Router {
         files,
         views: parsed.data.view,
         confirmPatientMismatch: parsed.data.confirmPatientMismatch,
+        workDir: options.uploadTmpDir,
       })
       res.status(201).json(records)
     },

@@ -16,12 +16,19 @@ export const isoDate = z
 export const notInFuture = (text: string) =>
   text <= new Date(Date.now() + 86_400_000).toISOString().slice(0, 10)
 
-export const idParam = z.object({
-  id: z.coerce
-    .number({ error: 'id must be a number' })
-    .int('id must be a whole number')
-    .positive('id must be positive'),
-})
+/**
+ * A row id in a path: decimal digits only, no sign, no leading zero, no spaces. Number() would
+ * read "0x10" as 16, "+1" and " 1" as 1 and "1e1" as 10 (ECMA-262 StringToNumber), each of
+ * them another record; only the canonical spelling of an id reaches a query. Ids are MariaDB
+ * INT UNSIGNED auto-increments, so at most 4294967295.
+ */
+export const rowId = z
+  .string({ error: 'id must be a number' })
+  .regex(/^[1-9][0-9]{0,9}$/, 'id must be a positive whole number written in decimal digits')
+  .transform(Number)
+  .refine((id) => id <= 4_294_967_295, 'id is larger than any record id')
+
+export const idParam = z.object({ id: rowId })
 
 export const version = z
   .number({ error: 'must be the version number you last read' })

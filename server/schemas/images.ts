@@ -1,7 +1,7 @@
 import { z } from 'zod'
 import { IMAGE_VIEWS } from '../../shared/types/domain'
 import type { CalibrationInput } from '../../shared/types/api'
-import { version } from './common'
+import { rowId, version } from './common'
 
 const viewValue = z.union([z.enum(IMAGE_VIEWS), z.literal('')], {
   error: `must be one of ${IMAGE_VIEWS.join(', ')}`,
@@ -33,7 +33,7 @@ export const calibrationBody = z.strictObject({
 }) satisfies z.ZodType<CalibrationInput>
 
 export const renditionParams = z.object({
-  id: z.coerce.number({ error: 'id must be a number' }).int().positive(),
+  id: rowId,
   name: z.enum(['display', 'preview', 'thumbnail', 'full-depth'], {
     error: 'must be display, preview, thumbnail or full-depth',
   }),

@@ -1,4 +1,6 @@
 import { z } from 'zod'
+import { PLAUSIBLE_SPACING_MM } from '../images/dicom/pixel-spacing'
+import { landmarkPoints } from './readings'
 
 /** Query of POST /api/measurements/compute: intervals on request, with σ overrides. */
 export const computeQuery = z.object({
@@ -13,4 +15,26 @@ export const computeQuery = z.object({
     .positive('must be positive')
     .max(100)
     .optional(),
+})
+
+const { min, max } = PLAUSIBLE_SPACING_MM
+const spacingMm = z
+  .number({ error: 'must be a number of mm per pixel' })
+  .finite('must be a finite number of mm per pixel')
+  .min(min, `must be ${min}–${max} mm per pixel, the range of radiographs`)
+  .max(max, `must be ${min}–${max} mm per pixel, the range of radiographs`)
+
+/**
+ * Body of POST /api/measurements/compute: a landmark document whose points obey the same rules
+ * as a reading's, and whose spacing the same range as a film header's. The engine then checks
+ * the geometry (names, endplates, rims).
+ */
+export const computeBody = z.strictObject({
+  mmPerPixel: z
+    .union([spacingMm, z.tuple([spacingMm, spacingMm])], {
+      error: 'must be one number of mm per pixel or [row, column]',
+    })
+    .nullable()
+    .optional(),
+  points: landmarkPoints,
 })

@@ -38,6 +38,9 @@ const options = z.strictObject({
       { error: 'must be a list of { segment, implant }' },
     )
     .optional(),
+  discReplacements: z
+    .array(segment, { error: 'must be a list of segments with a disc replacement' })
+    .optional(),
 }) satisfies z.ZodType<TemplateOptions>
 
 /** Which options each template takes; anything else is refused rather than silently ignored. */
@@ -48,6 +51,26 @@ function checkOptions(
 ): void {
   const issue = (path: string[], message: string) =>
     ctx.addIssue({ code: 'custom', path: ['options', ...path], message })
+  if (template === 'implant-centring') {
+    if (value.segment !== undefined || value.construct !== undefined)
+      issue(
+        [value.segment !== undefined ? 'segment' : 'construct'],
+        'does not apply to the implant-centring template; list the segments in discReplacements',
+      )
+    const listed = value.discReplacements ?? []
+    if (listed.length === 0)
+      issue(
+        ['discReplacements'],
+        'must list at least one segment with a disc replacement for the implant-centring template',
+      )
+    listed.forEach((entry, index) => {
+      if (listed.indexOf(entry) !== index)
+        issue(['discReplacements', String(index)], `lists ${entry} twice`)
+    })
+    return
+  }
+  if (value.discReplacements !== undefined)
+    issue(['discReplacements'], `does not apply to the ${template} template`)
   if (template === 'slip-grade' || template === 'motion-pair') {
     if (value.segment === undefined)
       issue(
@@ -123,3 +146,6 @@ export const patchReadingBody = z.strictObject({
 }) satisfies z.ZodType<PatchReadingInput>
 
 export const submitReadingBody = z.strictObject({ version })
+
+/** The landmark points of a reading, also the points of a document sent to compute. */
+export { points as landmarkPoints }

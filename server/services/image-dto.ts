@@ -47,6 +47,7 @@ export function toImageRecord(
           bitsStored: dicom.bitsStored,
           studyDate: identified ? dicom.studyDate : null,
           acquisitionDate: identified ? dicom.acquisitionDate : null,
+          patientOrientation: dicom.patientOrientation ?? null,
           // Header identity only where it is asked for one film at a time, and audited there.
           ...(identified && withPatientAttributes ? { patient: dicom.patient } : {}),
         }

@@ -1,8 +1,8 @@
-import { readFile, rm } from 'node:fs/promises'
+import { existsSync } from 'node:fs'
+import { rm } from 'node:fs/promises'
 import type { Readable } from 'node:stream'
 import type { Db } from '../db/knex'
 import {
-  countImagesWithHash,
   countReadingsOfImage,
   deleteImage,
   findImage,
@@ -15,10 +15,12 @@ import {
   type NewImage,
 } from '../db/images'
 import type { FileStore } from '../storage/file-store'
-import { decodeFilm } from '../images/decode-film'
-import { makeFilmRenditions, type FilmRenditions } from '../images/renditions'
+import { ingestInWorker } from '../images/ingest/ingest-pool'
+import type { IngestedFilm, RenditionKind } from '../images/ingest/ingest-film'
 import { isImageError } from '../images/image-error'
-import type { DecodedFilm } from '../images/decoded-film'
+import { isPlausibleSpacingMm, PLAUSIBLE_SPACING_MM } from '../images/dicom/pixel-spacing'
+import { lockFilmContents } from '../db/film-files'
+import { contentFolder, removeUnreferencedFiles } from './film-content'
 import type { StreamedUpload } from '../middleware/upload'
 import { asNotFound, badRequest, conflict, HttpError, notFound } from '../errors'
 import { IMAGE_VIEWS, type ImageView } from '../../shared/types/domain'
@@ -32,16 +34,22 @@ export type RenditionName = 'display' | 'preview' | 'thumbnail' | 'full-depth'
 
 const EXTENSIONS: Record<FileKind, string> = { dicom: 'dcm', png: 'png', jpeg: 'jpg', tiff: 'tif' }
 
+type ContentKeys = Record<'original' | RenditionKind, string>
+
 /** Content-addressed keys: the same film uploaded twice is stored once. */
-function keysFor(hash: string, kind: FileKind, renditions: FilmRenditions) {
-  const folder = `films/${hash.slice(0, 2)}/${hash}`
+function keysFor(
+  hash: string,
+  kind: FileKind,
+  renditions: IngestedFilm['renditions'],
+): ContentKeys {
+  const folder = contentFolder(hash)
   const ext = (mediaType: string) => (mediaType === 'image/webp' ? 'webp' : 'png')
   return {
-    original: `${folder}/original.${EXTENSIONS[kind]}`,
-    display: `${folder}/display.${ext(renditions.display.mediaType)}`,
-    preview: `${folder}/preview.${ext(renditions.preview.mediaType)}`,
-    thumbnail: `${folder}/thumbnail.${ext(renditions.thumbnail.mediaType)}`,
-    fullDepth: `${folder}/full-depth.png`,
+    original: `${folder}original.${EXTENSIONS[kind]}`,
+    display: `${folder}display.${ext(renditions.display.mediaType)}`,
+    preview: `${folder}preview.${ext(renditions.preview.mediaType)}`,
+    thumbnail: `${folder}thumbnail.${ext(renditions.thumbnail.mediaType)}`,
+    fullDepth: `${folder}full-depth.png`,
   }
 }
 
@@ -59,19 +67,22 @@ export interface UploadRequest {
   /** One view per file in order, or one for all; empty entries fall back to the DICOM header. */
   views: Array<ImageView | ''>
   confirmPatientMismatch: boolean
+  /** Where renditions wait, as temporary files, until they are filed (UPLOAD_DIR/tmp). */
+  workDir: string
 }
 
 interface PreparedFilm {
   upload: StreamedUpload
-  /** Kept only for a one-file upload; with several, pixels are decoded again one at a time. */
-  film: DecodedFilm | null
+  ingested: IngestedFilm
   view: ImageView
+  keys: ContentKeys
 }
 
-async function decodeUpload(upload: StreamedUpload): Promise<DecodedFilm> {
+/** Decodes one upload and makes its renditions in a worker thread; no database connection. */
+async function ingestUpload(upload: StreamedUpload, workDir: string): Promise<IngestedFilm> {
   if (upload.size === 0) throw new HttpError(422, 'empty_file', `${upload.originalName} is empty.`)
   try {
-    return await decodeFilm(await readFile(upload.path))
+    return await ingestInWorker({ path: upload.path, tmpDir: workDir })
   } catch (error) {
     if (isImageError(error)) {
       throw new HttpError(
@@ -87,7 +98,7 @@ async function decodeUpload(upload: StreamedUpload): Promise<DecodedFilm> {
 function pickView(
   request: UploadRequest,
   index: number,
-  film: DecodedFilm,
+  film: IngestedFilm['film'],
   name: string,
 ): ImageView {
   const given = request.views.length === 1 ? request.views[0] : request.views[index]
@@ -102,8 +113,10 @@ function pickView(
 }
 
 /**
- * Files uploaded films against a visit, all or nothing: every file is decoded and checked before
- * anything is stored, and a failure after storing removes what this request wrote.
+ * Files uploaded films against a visit, all or nothing. Every file is decoded and checked first,
+ * in the ingest workers and without a database connection; then one short transaction locks
+ * each film's content row, moves into place whichever of its files the store lacks, and writes
+ * the image rows and their audit events. Temporary files are removed whatever happens.
  */
 export async function uploadImages(
   db: Db,
@@ -112,6 +125,8 @@ export async function uploadImages(
   visitId: number,
   request: UploadRequest,
 ): Promise<ImageRecord[]> {
+  const prepared: PreparedFilm[] = []
+  const renditionFiles: string[] = []
   try {
     if (request.files.length === 0)
       throw badRequest('Attach at least one file in the field "file".', {
@@ -124,21 +139,19 @@ export async function uploadImages(
       )
     }
     const { visit, patient } = await loadVisibleVisit(db, actor, visitId)
-    const prepared: PreparedFilm[] = []
     const mismatches: PatientMismatch[] = []
     for (const [index, upload] of request.files.entries()) {
-      const film = await decodeUpload(upload)
-      const view = pickView(request, index, film, upload.originalName)
-      if (await findImageByHash(db, visitId, upload.sha256)) {
-        throw conflict(`${upload.originalName} is already filed on this visit.`)
-      }
-      if (film.header) {
-        const differences = comparePatient(film.header, patient, visit)
+      const ingested = await ingestUpload(upload, request.workDir)
+      renditionFiles.push(...Object.values(ingested.renditions).map((file) => file.path))
+      const keys = keysFor(upload.sha256, ingested.film.fileType, ingested.renditions)
+      const view = pickView(request, index, ingested.film, upload.originalName)
+      prepared.push({ upload, ingested, keys, view })
+      // Checked again under the lock; asked here too so a repeat is refused before the rest.
+      if (await findImageByHash(db, visitId, upload.sha256)) throw alreadyFiled(upload)
+      if (ingested.film.header) {
+        const differences = comparePatient(ingested.film.header, patient, visit)
         if (differences.length > 0) mismatches.push({ file: upload.originalName, differences })
       }
-      // Several films of 3000 × 2500 × 16 bits would sit in memory together: keep only the
-      // checks' results and decode each again when it is stored.
-      prepared.push({ upload, film: request.files.length === 1 ? film : null, view })
     }
     if (mismatches.length > 0 && !request.confirmPatientMismatch) {
       throw new HttpError(
@@ -155,117 +168,100 @@ export async function uploadImages(
         },
       )
     }
-    return await withContentLocks(
-      db,
-      prepared.map(({ upload }) => upload.sha256),
-      () =>
-        storeAndRecord(
-          db,
-          store,
-          actor,
-          visitId,
-          prepared,
-          mismatches.length > 0,
-          patient.studyCode,
-        ),
-    )
+    return await fileFilms(db, store, actor, visitId, prepared, {
+      mismatchConfirmed: mismatches.length > 0,
+      studyCode: patient.studyCode,
+    })
   } finally {
-    await Promise.all(request.files.map((file) => rm(file.path, { force: true })))
+    const temporary = [...request.files.map((file) => file.path), ...renditionFiles]
+    await Promise.all(temporary.map((path) => rm(path, { force: true })))
   }
 }
 
-/**
- * Serialises everything that writes or deletes the shared, content-addressed files of the given
- * hashes (MariaDB named locks, taken in a fixed order so two uploads cannot deadlock): without
- * it one request could remove files another has just decided to reuse.
- */
-async function withContentLocks<T>(db: Db, hashes: string[], work: () => Promise<T>): Promise<T> {
-  const names = [...new Set(hashes)].sort().map((hash) => `endplate-film-${hash.slice(0, 40)}`)
-  // The locks belong to one connection, held for the duration by this transaction.
-  return db.transaction(async (lockHolder) => {
-    for (const name of names) {
-      const [rows] = (await lockHolder.raw('SELECT GET_LOCK(?, 60) AS ok', [name])) as [
-        Array<{ ok: number | null }>,
-      ]
-      if (rows[0]?.ok !== 1)
-        throw new HttpError(
-          503,
-          'busy',
-          'The same film is being filed by someone else right now. Try again in a minute.',
-        )
-    }
-    try {
-      return await work()
-    } finally {
-      for (const name of names) await lockHolder.raw('SELECT RELEASE_LOCK(?)', [name])
-    }
-  })
+function alreadyFiled(upload: StreamedUpload): HttpError {
+  return conflict(`${upload.originalName} is already filed on this visit.`)
 }
 
-async function storeAndRecord(
+/**
+ * The one transaction of an upload. Under the content rows' locks no deletion or sweep can
+ * remove a film's files, so each file the store lacks is moved in from its temporary copy
+ * (a rename, idempotent by key) before the image row that needs it is written.
+ */
+async function fileFilms(
   db: Db,
   store: FileStore,
   actor: Actor,
   visitId: number,
   prepared: PreparedFilm[],
-  mismatchConfirmed: boolean,
-  studyCode: string,
+  context: { mismatchConfirmed: boolean; studyCode: string },
 ): Promise<ImageRecord[]> {
-  const written: string[] = []
   try {
-    const rows: NewImage[] = []
-    for (const { upload, film: kept, view } of prepared) {
-      const film = kept ?? (await decodeUpload(upload))
-      const renditions = await makeFilmRenditions(film)
-      const keys = keysFor(upload.sha256, film.fileType, renditions)
-      if (!(await store.exists(keys.original))) {
-        await store.putFile(keys.original, upload.path)
-        written.push(keys.original)
-      }
-      for (const [key, rendition] of [
-        [keys.display, renditions.display],
-        [keys.preview, renditions.preview],
-        [keys.thumbnail, renditions.thumbnail],
-        [keys.fullDepth, renditions.fullDepth],
-      ] as const) {
-        if (await store.exists(key)) continue
-        await store.put(key, rendition.buffer)
-        written.push(key)
-      }
-      rows.push(newImageRow(visitId, actor, upload, film, view, keys, renditions))
-    }
-    return await db.transaction(async (trx) => {
+    return await fileFilmsOnce(db, store, actor, visitId, prepared, context)
+  } catch (error) {
+    // All or nothing: files moved in for rows that were rolled back go again (under their
+    // locks, so a film another request filed meanwhile keeps its files). If the database is
+    // gone too, the start-up sweep removes them later.
+    for (const hash of new Set(prepared.map(({ upload }) => upload.sha256)))
+      await removeUnreferencedFiles(db, store, hash).catch(() => [])
+    throw error
+  }
+}
+
+async function fileFilmsOnce(
+  db: Db,
+  store: FileStore,
+  actor: Actor,
+  visitId: number,
+  prepared: PreparedFilm[],
+  context: { mismatchConfirmed: boolean; studyCode: string },
+): Promise<ImageRecord[]> {
+  return db.transaction(
+    async (trx) => {
+      await lockFilmContents(
+        trx,
+        prepared.map(({ upload }) => upload.sha256),
+      )
       const records: ImageRecord[] = []
-      for (const row of rows) {
-        const id = await insertImage(trx, row)
+      for (const film of prepared) {
+        if (await findImageByHash(trx, visitId, film.upload.sha256)) throw alreadyFiled(film.upload)
+        await storeMissingFiles(store, film)
+        const id = await insertImage(trx, newImageRow(visitId, actor, film))
         await audit(
           trx,
           actor,
           'create',
           'image',
           id,
-          `Uploaded a ${row.view} film to visit ${visitId} of patient ${studyCode}${mismatchConfirmed ? ' (patient mismatch confirmed)' : ''}`,
+          `Uploaded a ${film.view} film to visit ${visitId} of patient ${context.studyCode}${context.mismatchConfirmed ? ' (patient mismatch confirmed)' : ''}`,
         )
         const stored = await findImage(trx, id)
         if (stored) records.push(toImageRecord(stored, identifies(actor), true))
       }
       return records
-    })
-  } catch (error) {
-    await Promise.all(written.map((key) => store.remove(key)))
-    throw error
+    },
+    { isolationLevel: 'read committed' },
+  )
+}
+
+async function storeMissingFiles(store: FileStore, film: PreparedFilm): Promise<void> {
+  const sources: Array<[key: string, path: string]> = [
+    [film.keys.original, film.upload.path],
+    [film.keys.display, film.ingested.renditions.display.path],
+    [film.keys.preview, film.ingested.renditions.preview.path],
+    [film.keys.thumbnail, film.ingested.renditions.thumbnail.path],
+    [film.keys.fullDepth, film.ingested.renditions.fullDepth.path],
+  ]
+  for (const [key, path] of sources) {
+    if (await store.exists(key)) continue
+    // Each temporary file is moved in at most once, under the lock; a missing one is lost.
+    if (!existsSync(path)) throw new Error(`The temporary file for ${key} is missing`)
+    await store.putFile(key, path)
   }
 }
 
-function newImageRow(
-  visitId: number,
-  actor: Actor,
-  upload: StreamedUpload,
-  film: DecodedFilm,
-  view: ImageView,
-  keys: ReturnType<typeof keysFor>,
-  renditions: FilmRenditions,
-): NewImage {
+function newImageRow(visitId: number, actor: Actor, prepared: PreparedFilm): NewImage {
+  const { upload, ingested, view, keys } = prepared
+  const film = ingested.film
   const header = film.header
   const spacing = header?.spacing
   return {
@@ -291,8 +287,8 @@ function newImageRow(
       (header
         ? null
         : 'No spacing in an ordinary image file: calibrate on a marker of known size.'),
-    windowCenter: renditions.window.center,
-    windowWidth: renditions.window.width,
+    windowCenter: ingested.window.center,
+    windowWidth: ingested.window.width,
     acquiredAt: header?.acquisitionDate ?? header?.studyDate ?? null,
     dicomAttributes: header
       ? {
@@ -303,6 +299,7 @@ function newImageRow(
           bitsStored: header.pixel.bitsStored,
           studyDate: header.studyDate,
           acquisitionDate: header.acquisitionDate,
+          patientOrientation: header.patientOrientation,
           patient: {
             name: header.patient.name
               ? [header.patient.name.family, header.patient.name.given].filter(Boolean).join(', ')
@@ -404,19 +401,8 @@ export async function removeImage(
       `Deleted a ${image.view} film from visit ${image.visitId}`,
     )
   })
-  // Files are shared by content hash; remove them only when no other image uses them.
-  await withContentLocks(db, [image.contentHash], async () => {
-    if ((await countImagesWithHash(db, image.contentHash)) > 0) return
-    await Promise.all(
-      [
-        image.originalPath,
-        image.displayPath,
-        image.previewPath,
-        image.thumbnailPath,
-        image.fullDepthPath,
-      ].map((key) => store.remove(key)),
-    )
-  })
+  // Files are shared by content hash; removed only when no other image uses them.
+  await removeUnreferencedFiles(db, store, image.contentHash)
 }
 
 /** Default true length of the calibration object: a 25 mm sphere (common practice). */
@@ -454,6 +440,13 @@ export async function calibrateImage(
       : 1
   const columnMm = lengthMm / Math.hypot(dx, dy * aspect)
   const rowMm = columnMm * aspect
+  if (!isPlausibleSpacingMm(columnMm) || !isPlausibleSpacingMm(rowMm)) {
+    const { min, max } = PLAUSIBLE_SPACING_MM
+    throw badRequest(
+      `line: ${lengthMm} mm over ${lengthPx.toFixed(1)} px gives ${columnMm.toPrecision(3)} mm per pixel, outside the ${min}–${max} mm of radiographs; check the marker's length and the line's ends`,
+      { line: ['line: gives an implausible spacing'] },
+    )
+  }
   const changed = await db.transaction(async (trx) => {
     const ok = await updateImageCalibration(trx, imageId, input.version, {
       mmPerPixelRow: rowMm,

@@ -26,6 +26,8 @@ import { engineTreatment } from './plans-treatment'
 import {
   EVIDENCE_NOTE,
   firstMeasured,
+  implantPositionEvidence,
+  postOpEvidenceReadings,
   preOpEvidenceReadings,
   segmentEvidence,
 } from './plans-evidence'
@@ -40,6 +42,7 @@ function toPlanSegment(
   segment: MotionSegment,
   record: PlanSegmentRecord | undefined,
   preOp: readonly PatientReadingSummary[],
+  postOp: readonly PatientReadingSummary[],
   patient: PatientRecord,
 ): PlanSegment {
   const evidence = segmentEvidence(preOp, segment)
@@ -72,6 +75,8 @@ function toPlanSegment(
       osteoporosis: patient.osteoporosis,
       residualDiscHeightMm: evidence.residualDiscHeightMm?.value ?? null,
     }),
+    implantPosition:
+      treatment === 'disc-replacement' ? implantPositionEvidence(postOp, segment) : null,
     recordedInstability:
       treatment === 'disc-replacement'
         ? {
@@ -121,11 +126,13 @@ async function buildPlan(db: Db, patient: PatientRecord): Promise<PatientPlan> {
     listPatientReadings(db, patient.id),
   ])
   const preOp = preOpEvidenceReadings(readings)
+  const postOp = postOpEvidenceReadings(readings)
   const segments = MOTION_SEGMENTS.map((segment) =>
     toPlanSegment(
       segment,
       records.find((r) => r.segment === segment),
       preOp,
+      postOp,
       patient,
     ),
   )

@@ -4,6 +4,8 @@ import {
   computeSubsidence,
   computeUncertainty,
   DEFAULT_SIGMA_PX,
+  implantCentring,
+  type FrontalImageRightSide,
 } from '../../shared/measurement/index'
 import type { ImageRow } from '../db/images'
 import type { LandmarkDocument, PixelPoint } from '../../shared/types/landmarks'
@@ -38,6 +40,10 @@ export interface ResultsInput {
   baselines: Array<{ readingId: number; document: LandmarkDocument }>
   sigmaMm: number
   subsidenceThresholdMm: number
+  /** Implant centring: flag a lateral offset above this many mm. */
+  centringThresholdMm: number
+  /** Implant centring: the patient side of the image's right edge (DICOM Patient Orientation). */
+  imageRightSide: FrontalImageRightSide
 }
 
 /** Throws when a number is NaN or infinite: such a value must never reach the database. */
@@ -90,6 +96,13 @@ export function computeReadingResults(input: ResultsInput): ReadingResults {
       ? computeMotionPair(input.document, input.pairedDocument)
       : null
   const subsidence = subsidenceBySegment(input)
+  const centring =
+    input.template === 'implant-centring'
+      ? implantCentring(measurements, {
+          thresholdMm: input.centringThresholdMm,
+          imageRightSide: input.imageRightSide,
+        })
+      : null
   const results: ReadingResults = {
     measurements,
     uncertainty,
@@ -99,6 +112,7 @@ export function computeReadingResults(input: ResultsInput): ReadingResults {
       subsidence === null
         ? null
         : Math.min(...Object.values(subsidence).map((entry) => entry.baselineReadingId)),
+    centring,
   }
   assertFinite(results, 'results')
   return results

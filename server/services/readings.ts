@@ -15,15 +15,19 @@ import { findSiteSetting } from '../db/site-settings'
 import { asNotFound, badRequest, forbidden, HttpError, notFound } from '../errors'
 import { APP_VERSION } from '../version'
 import {
+  DEFAULT_IMPLANT_CENTRING_THRESHOLD_MM,
   DEFAULT_SIGMA_MM,
   DEFAULT_SUBSIDENCE_THRESHOLD_MM,
+  frontalImageRightSide,
   LandmarkDocumentError,
 } from '../../shared/measurement/index'
 import {
   templateLandmarks,
+  templateReadsFrontalFilm,
   TEMPLATE_LABELS,
   type TemplateOptions,
 } from '../../shared/readings/templates'
+import { submitRefusal } from '../../shared/readings/reading-rules'
 import type { ReadingTemplate } from '../../shared/types/domain'
 import type { PixelPoint } from '../../shared/types/landmarks'
 import type { CreateReadingInput, PatchReadingInput, Reading } from '../../shared/types/readings'
@@ -145,6 +149,9 @@ async function compute(db: Db, context: ComputeContext): Promise<ReadingComputat
         'subsidenceThresholdMm',
         DEFAULT_SUBSIDENCE_THRESHOLD_MM,
       ),
+      // The site settings screen will feed this; until then the published default applies.
+      centringThresholdMm: DEFAULT_IMPLANT_CENTRING_THRESHOLD_MM,
+      imageRightSide: frontalImageRightSide(context.image.dicomAttributes?.patientOrientation),
     })
     return {
       landmarks: document,
@@ -203,15 +210,21 @@ export async function createReading(
       : null
   const points = input.points ?? {}
   checkPoints('points', points, input.template, options, image)
-  if (
-    input.template === 'construct-check' &&
-    (await findVisit(db, image.visitId))?.kind === 'pre-op'
-  ) {
+  const postOpOnly = input.template === 'construct-check' || input.template === 'implant-centring'
+  if (postOpOnly && (await findVisit(db, image.visitId))?.kind === 'pre-op') {
     throw badRequest(
-      'template: a construct check reads a film taken after surgery; this film belongs to a pre-op visit',
+      `template: ${input.template === 'construct-check' ? 'a construct check' : 'implant centring'} reads a film taken after surgery; this film belongs to a pre-op visit`,
       {
-        template: ['template: construct-check needs a post-op or follow-up film'],
+        template: [`template: ${input.template} needs a post-op or follow-up film`],
       },
+    )
+  }
+  if (templateReadsFrontalFilm(input.template) !== (image.view === 'ap')) {
+    throw badRequest(
+      templateReadsFrontalFilm(input.template)
+        ? `template: implant centring is read on a frontal (AP) film; this film is ${image.view}`
+        : `template: the ${TEMPLATE_LABELS[input.template]} template reads a lateral film; this film is AP`,
+      { template: [`template: ${input.template} does not read a ${image.view} film`] },
     )
   }
   return db.transaction(async (trx) => {
@@ -378,14 +391,15 @@ export async function submitReading(
 ): Promise<Reading> {
   const { reading, image } = await loadVisibleReading(db, actor, id)
   assertEditable(reading, actor, version)
+  const refusal = submitRefusal({
+    template: reading.template,
+    options: reading.options,
+    points: reading.landmarks.points,
+    pairedPoints: reading.pairedLandmarks?.points ?? null,
+  })
+  if (refusal !== null) throw badRequest(refusal.message, refusal.details)
   const names = templateLandmarks(reading.template, reading.options).map((spec) => spec.name)
   const placed = names.filter((name) => name in reading.landmarks.points)
-  if (placed.length === 0) {
-    throw badRequest(
-      `Place at least one landmark of the ${TEMPLATE_LABELS[reading.template]} template before submitting.`,
-      { points: ['points: none of the template landmarks is placed'] },
-    )
-  }
   const pairedImage =
     reading.pairedImageId !== null ? await findImage(db, reading.pairedImageId) : undefined
   return guardedWrite(db, id, actor, version, async (trx) => {

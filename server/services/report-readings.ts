@@ -56,6 +56,7 @@ export function visitFor(
 export function readingSegments(reading: Reading): SegmentName[] {
   if (reading.template === 'construct-check')
     return (reading.options.construct ?? []).map((item) => item.segment)
+  if (reading.template === 'implant-centring') return [...(reading.options.discReplacements ?? [])]
   if (reading.template === 'lumbar-alignment') return [...MOTION_SEGMENTS]
   return [reading.options.segment ?? 'L5-S1']
 }
@@ -162,7 +163,9 @@ export async function reportReading(db: Db, input: ReportReadingInput): Promise<
   )
   const signer = reading.signedBy !== null ? await findUserById(db, reading.signedBy) : undefined
   const segment = reading.options.segment ? ` ${reading.options.segment}` : ''
-  const construct = reading.options.construct?.map((item) => item.segment).join(', ')
+  const construct = (
+    reading.options.construct?.map((item) => item.segment) ?? reading.options.discReplacements
+  )?.join(', ')
   return {
     readingId: reading.id,
     title: `${TEMPLATE_LABELS[reading.template]}${segment}${construct ? ` ${construct}` : ''} · reading ${reading.id}`,

@@ -15,6 +15,13 @@ export interface FileStore {
   open(key: string): Promise<Readable | null>
   exists(key: string): Promise<boolean>
   remove(key: string): Promise<void>
+  /** Every key under a folder prefix (ending in "/"), with its last modification time. */
+  list(prefix: string): AsyncIterable<StoredEntry>
+}
+
+export interface StoredEntry {
+  key: string
+  modifiedAt: Date
 }
 
 /** Keys must be relative, slash-separated and free of `..`, whatever calls the store. */

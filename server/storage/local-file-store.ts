@@ -1,6 +1,6 @@
 import { createReadStream } from 'node:fs'
-import { access, mkdir, readFile, rename, rm, writeFile } from 'node:fs/promises'
-import { dirname, join } from 'node:path'
+import { access, mkdir, readdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises'
+import { dirname, join, relative, sep } from 'node:path'
 import { randomUUID } from 'node:crypto'
 import { assertSafeKey, type FileStore } from './file-store'
 
@@ -47,6 +47,23 @@ export function createLocalFileStore(root: string): FileStore {
     },
     async remove(key) {
       await rm(pathOf(key), { force: true })
+    },
+    async *list(prefix) {
+      const folder = pathOf(prefix.replace(/\/$/, ''))
+      let entries
+      try {
+        entries = await readdir(folder, { withFileTypes: true, recursive: true })
+      } catch (error) {
+        if ((error as NodeJS.ErrnoException).code === 'ENOENT') return
+        throw error
+      }
+      for (const entry of entries) {
+        if (!entry.isFile()) continue
+        const path = join(entry.parentPath, entry.name)
+        // A file removed since the listing (by another request) is simply skipped.
+        const info = await stat(path).catch(() => null)
+        if (info) yield { key: relative(root, path).split(sep).join('/'), modifiedAt: info.mtime }
+      }
     },
   }
 }

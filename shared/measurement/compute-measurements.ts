@@ -2,6 +2,7 @@ import type { LandmarkDocument } from '../types/landmarks'
 import type { MeasurementResult, SegmentMeasurement, SegmentName } from '../types/measurement'
 import { piLlBandFromMismatchDeg, targetLordosisDeg } from './alignment'
 import { hipAxis } from './femoral-head'
+import { measureFrontal, type FrontalAngleMode } from './frontal'
 import { SEGMENTS } from './landmark-names'
 import { lordosisToSacrumDeg } from './lordosis'
 import { parseLandmarkDocument } from './parse-landmark-document'
@@ -11,9 +12,13 @@ import { measureSegment } from './segment-measures'
 
 /**
  * Every measure of already prepared points, with no validation: the inner step that
- * `computeMeasurements` and the uncertainty propagation share.
+ * `computeMeasurements` and the uncertainty propagation share. `frontalAngles: 'signed'` gives
+ * the frontal coronal angles with their sign, for differentiation only (see `FrontalAngleMode`).
  */
-export function measurePrepared(prepared: PreparedPoints): MeasurementResult {
+export function measurePrepared(
+  prepared: PreparedPoints,
+  frontalAngles: FrontalAngleMode = 'unsigned',
+): MeasurementResult {
   const { work, spacing } = prepared
   // Only computable segments get a key, so a reader never mistakes an empty one for a result.
   const segments: Partial<Record<SegmentName, SegmentMeasurement>> = {}
@@ -47,12 +52,13 @@ export function measurePrepared(prepared: PreparedPoints): MeasurementResult {
             columnMm: spacing.columnMm,
             square: spacing.rowMm === spacing.columnMm,
           },
+    frontal: measureFrontal(prepared, frontalAngles),
   }
 }
 
 /**
- * Measures a lateral lumbar landmark document (measurement-reference §3, §4, §7 and the JSON
- * contract of §10). The document is validated first, so untrusted input is fine: it throws
+ * Measures a landmark document (measurement-reference §3, §4, §7 and §11 for a frontal film,
+ * and the JSON contract of §10). The document is validated first, so untrusted input is fine: it throws
  * `LandmarkDocumentError` for anything `parseLandmarkDocument` refuses. Angles in degrees
  * (lordosis positive, slip angle kyphosis positive), slips in % of the lower endplate depth, mm
  * values null when the document has no `mmPerPixel`. A segment is present only when it can be

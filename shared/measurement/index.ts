@@ -24,6 +24,15 @@ export {
   type SegmentPlanCheckInput,
 } from './plan-checks'
 export {
+  DEFAULT_IMPLANT_CENTRING_THRESHOLD_MM,
+  frontalImageRightSide,
+  frontalSideWords,
+  implantCentring,
+  isImplantOffCentre,
+  type FrontalImageRightSide,
+  type ImplantCentringOptions,
+} from './implant-centring'
+export {
   parseLandmarkDocument,
   RIM_COLLINEAR_TOLERANCE,
   ZERO_LENGTH_TOLERANCE_PX,
@@ -32,6 +41,8 @@ export { LandmarkDocumentError, type LandmarkDocumentErrorCode } from './landmar
 export {
   cagePointName,
   cornerName,
+  frontalImplantName,
+  frontalPointName,
   implantMarkerName,
   isKnownLandmarkName,
   KNOWN_LANDMARK_NAMES,

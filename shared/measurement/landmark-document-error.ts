@@ -9,6 +9,7 @@ export type LandmarkDocumentErrorCode =
   | 'incomplete-rim'
   | 'conflicting-femoral-head'
   | 'degenerate-frame'
+  | 'crossed-frontal-lines'
 
 /**
  * Thrown by `parseLandmarkDocument` (and so by every compute function) for input it refuses.

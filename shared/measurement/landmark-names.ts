@@ -15,6 +15,11 @@ import type { SegmentName } from '../types/measurement'
  *   `.inf.a` (posterior and anterior ends of the cage's superior and inferior surfaces) and
  *   `implant.<segment>.marker` (the radiographic marker of a disc replacement), for every
  *   segment L1-L2 … L5-S1.
+ * - Frontal (AP) film, for each segment U-W: `U.il`, `U.ir` (the lateral corners of U's inferior
+ *   endplate), `W.sl`, `W.sr` (the lateral corners of W's superior endplate), `tdr.U-W.l`,
+ *   `tdr.U-W.r` (the two lateral ends of a disc replacement) and `U.sp` (the tip of U's
+ *   spinous process). `l` and `r` are as placed on the image: `l` is nearer the image's left
+ *   edge, whichever side of the patient that is.
  */
 
 export const LUMBAR_VERTEBRAE = ['L1', 'L2', 'L3', 'L4', 'L5'] as const
@@ -44,6 +49,14 @@ export const SEGMENT_NAMES: readonly SegmentName[] = SEGMENTS.map((segment) => s
 export const CAGE_POINTS = ['sup.p', 'sup.a', 'inf.p', 'inf.a'] as const
 export type CagePoint = (typeof CAGE_POINTS)[number]
 
+/** Frontal-film points of a vertebra: inferior and superior endplate ends, spinous process tip. */
+export const FRONTAL_VERTEBRA_POINTS = ['il', 'ir', 'sl', 'sr', 'sp'] as const
+export type FrontalVertebraPoint = (typeof FRONTAL_VERTEBRA_POINTS)[number]
+
+/** The two lateral ends of a disc replacement on a frontal film, as placed on the image. */
+export const FRONTAL_IMPLANT_ENDS = ['l', 'r'] as const
+export type FrontalImplantEnd = (typeof FRONTAL_IMPLANT_ENDS)[number]
+
 /** Name of a vertebral corner, e.g. `L4.ps`. */
 export function cornerName(vertebra: Vertebra, corner: VertebraCorner | 'pw'): string {
   return `${vertebra}.${corner}`
@@ -64,6 +77,16 @@ export function implantMarkerName(segment: SegmentName): string {
   return `implant.${segment}.marker`
 }
 
+/** Name of a frontal-film point of a vertebra, e.g. `L4.il` or `S1.sr`. */
+export function frontalPointName(vertebra: Vertebra, where: FrontalVertebraPoint): string {
+  return `${vertebra}.${where}`
+}
+
+/** Name of a lateral end of a disc replacement on a frontal film, e.g. `tdr.L4-L5.l`. */
+export function frontalImplantName(segment: SegmentName, end: FrontalImplantEnd): string {
+  return `tdr.${segment}.${end}`
+}
+
 function buildKnownNames(): ReadonlySet<string> {
   const names: string[] = []
   for (const vertebra of LUMBAR_VERTEBRAE) {
@@ -77,6 +100,13 @@ function buildKnownNames(): ReadonlySet<string> {
   for (const segment of SEGMENT_NAMES) {
     for (const where of CAGE_POINTS) names.push(cagePointName(segment, where))
     names.push(implantMarkerName(segment))
+  }
+  // Frontal film: U's inferior endplate ends and spinous process, W's superior endplate ends.
+  for (const { name, upper, lower } of SEGMENTS) {
+    names.push(frontalPointName(upper, 'il'), frontalPointName(upper, 'ir'))
+    names.push(frontalPointName(upper, 'sp'))
+    names.push(frontalPointName(lower, 'sl'), frontalPointName(lower, 'sr'))
+    for (const end of FRONTAL_IMPLANT_ENDS) names.push(frontalImplantName(name, end))
   }
   return new Set(names)
 }

@@ -7,6 +7,8 @@ import {
   cagePointName,
   cornerName,
   FEMORAL_HEADS,
+  frontalImplantName,
+  frontalPointName,
   isKnownLandmarkName,
   LUMBAR_VERTEBRAE,
   rimPointName,
@@ -15,6 +17,8 @@ import {
   type Vertebra,
 } from './landmark-names'
 import { lookUpFrame } from './frame'
+import { frontalEndplateDirection } from './frontal'
+import { vectorDot, vectorSubtract } from '../geometry/vector'
 
 /** Two landmarks closer than this (image px) make a zero-length line: far below any placement. */
 export const ZERO_LENGTH_TOLERANCE_PX = 1e-6
@@ -145,6 +149,46 @@ function checkLineLengths(points: Readonly<Record<string, Point>>): void {
   }
 }
 
+/**
+ * Frontal film: every line runs from its `l` to its `r` end, so the lines of one segment point
+ * the same way. Lines meeting at more than 90° mean one pair was swapped (l nearer the image's
+ * right edge), which would silently flip the sign of the offset; such a document is refused.
+ */
+function checkFrontalLines(points: Readonly<Record<string, Point>>): void {
+  for (const { name: segment, upper, lower } of SEGMENTS) {
+    const upperLeft = frontalPointName(upper, 'il')
+    const upperRight = frontalPointName(upper, 'ir')
+    const lowerLeft = frontalPointName(lower, 'sl')
+    const lowerRight = frontalPointName(lower, 'sr')
+    refuseZeroLength(points, upperLeft, upperRight, `${upper} inferior endplate (frontal)`)
+    refuseZeroLength(points, lowerLeft, lowerRight, `${lower} superior endplate (frontal)`)
+    const implantLeft = frontalImplantName(segment, 'l')
+    const implantRight = frontalImplantName(segment, 'r')
+    refuseZeroLength(points, implantLeft, implantRight, `disc replacement ${segment} (frontal)`)
+    const [ul, ur, ll, lr] = [upperLeft, upperRight, lowerLeft, lowerRight].map(
+      (name) => points[name],
+    )
+    if (!ul || !ur || !ll || !lr) continue
+    if (vectorDot(vectorSubtract(ur, ul), vectorSubtract(lr, ll)) <= 0) {
+      throw new LandmarkDocumentError(
+        'crossed-frontal-lines',
+        `the ${upper} and ${lower} endplate lines (${upperLeft} → ${upperRight}, ${lowerLeft} → ${lowerRight}) run in opposite directions: l and r are swapped on one of them (l is the end nearer the image's left edge)`,
+        lowerRight,
+      )
+    }
+    const il = points[implantLeft]
+    const ir = points[implantRight]
+    const direction = frontalEndplateDirection(ul, ur, ll, lr)
+    if (il && ir && direction && vectorDot(vectorSubtract(ir, il), direction) <= 0) {
+      throw new LandmarkDocumentError(
+        'crossed-frontal-lines',
+        `the disc replacement ${segment} runs against its endplates (${implantLeft} → ${implantRight}): its l and r ends are swapped (l is the end nearer the image's left edge)`,
+        implantRight,
+      )
+    }
+  }
+}
+
 function checkFemoralHeads(points: Readonly<Record<string, Point>>): void {
   for (const head of FEMORAL_HEADS) {
     const names = [rimPointName(head, 1), rimPointName(head, 2), rimPointName(head, 3)]
@@ -195,7 +239,8 @@ function checkFrames(points: Readonly<Record<string, Point>>): void {
  * fresh copy in image pixels (x right, y down). Throws `LandmarkDocumentError` naming the
  * problem: bad structure (including unknown top-level keys, so a misspelt `mmPerPixel` is not
  * silently ignored), an unknown landmark name, a non-finite coordinate, non-positive spacing, a
- * zero-length endplate, wall or cage surface (within `ZERO_LENGTH_TOLERANCE_PX`), an incomplete
+ * zero-length endplate, wall, cage surface or frontal line (within `ZERO_LENGTH_TOLERANCE_PX`),
+ * frontal lines of one segment running in opposite directions (l and r swapped), an incomplete
  * or collinear femoral head rim (`RIM_COLLINEAR_TOLERANCE`), a head given both ways, or upper
  * corners lying on the lower endplate line.
  */
@@ -227,6 +272,7 @@ export function parseLandmarkDocument(input: unknown): LandmarkDocument {
   const points: Record<string, PixelPoint> = {}
   for (const [name, value] of Object.entries(rawPoints)) points[name] = parsePoint(name, value)
   checkLineLengths(points)
+  checkFrontalLines(points)
   checkFemoralHeads(points)
   checkFrames(points)
   return { mmPerPixel, points }

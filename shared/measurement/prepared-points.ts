@@ -28,11 +28,30 @@ export function preparePoints(
   return { spacing, px: pointsPx, work }
 }
 
-/** `PreparedPoints` of a document already checked by `parseLandmarkDocument`. */
+/**
+ * The spacings, in mm per pixel and per axis, that the engine turns into mm values: from 1 nm
+ * to 1 km per pixel, far wider than any imaging device (radiographs are about 0.05–1 mm), yet
+ * narrow enough that coordinates scaled by it, and their squares and cross products, stay
+ * finite and above underflow. A spacing outside it (a damaged header's 1e308, say) would turn
+ * every work-space point into Infinity or 0 and lose the angles with the mm values.
+ */
+export const USABLE_SPACING_MM = { min: 1e-6, max: 1e6 } as const
+
+/** True when both axes of the spacing lie within `USABLE_SPACING_MM` (NaN is not usable). */
+function isUsableSpacing(spacing: PixelSpacing): boolean {
+  const within = (mm: number) => mm >= USABLE_SPACING_MM.min && mm <= USABLE_SPACING_MM.max
+  return within(spacing.rowMm) && within(spacing.columnMm)
+}
+
+/**
+ * `PreparedPoints` of a document already checked by `parseLandmarkDocument`. A spacing outside
+ * `USABLE_SPACING_MM` is treated as none: mm values are null (and `calibration` in the result
+ * says so), while angles and percentages, which need no scale, are still measured.
+ */
 export function prepareDocument(doc: LandmarkDocument): PreparedPoints {
   const spacing =
     doc.mmPerPixel === undefined || doc.mmPerPixel === null
       ? null
       : spacingFromMmPerPixel(doc.mmPerPixel)
-  return preparePoints(doc.points, spacing)
+  return preparePoints(doc.points, spacing !== null && isUsableSpacing(spacing) ? spacing : null)
 }

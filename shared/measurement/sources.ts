@@ -37,6 +37,12 @@ export const SOURCES = {
   osteoporosis: 'Büttner-Janz et al. 2014, Int J Spine Surg 8:12 [V]',
   residualDiscHeight:
     'Büttner-Janz et al. 2014, Int J Spine Surg 8:12 [V]: the literature is mixed on a minimum disc height',
+  frontalOffset:
+    'offset of the implant centre from the body midline along the endplates [D]; flagged above 3 mm by default (a site setting): McAfee et al. 2005, Spine 30:1576, ideal placement within 3 mm of the midline [M]',
+  frontalTilt: 'angle between the implant and the mean endplate direction [D]',
+  frontalSegmentAngle: 'angle between the upper and lower endplate lines on the frontal film [D]',
+  frontalRotation:
+    'spinous process tip off the body midline, % of half the endplate width; a large value means a rotated film (common practice)',
   plannedLordosis:
     'current lordosis + Σ(planned implant angle − current segmental angle at fused segments) [D]: an estimate',
 } as const

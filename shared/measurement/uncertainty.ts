@@ -12,6 +12,7 @@ import type {
   ValueInterval,
 } from '../types/measurement'
 import { measurePrepared } from './compute-measurements'
+import { FRONTAL_UNSIGNED_ANGLE_KEYS } from './frontal'
 import { SEGMENT_NAMES } from './landmark-names'
 import { meyerdingGradeFromSlipPercent, MEYERDING_UPPER_BOUNDS_PERCENT } from './meyerding'
 import { normalCdf } from './normal-distribution'
@@ -94,7 +95,9 @@ export function meyerdingUncertainty(slipPercent: number, sdPercent: number): Me
  * near ±180° is not broken. SD = sqrt(Σ (∂f/∂xᵢ · σᵢ)²); the interval is value ± 1.96·SD.
  * Deterministic (no sampling) and about 2·(number of coordinates) evaluations of the engine.
  * Being linear, it is accurate while σ is small against the endplate lengths; classifications
- * use the normal approximation of the slip. An interval is null where its value is null, or
+ * use the normal approximation of the slip. The unsigned frontal angles (implant tilt, segment
+ * coronal angle) take their SD from the signed angle, and their interval is clipped at 0°. An
+ * interval is null where its value is null, or
  * where a perturbation makes the value undefined (a degenerate configuration). Throws `LandmarkDocumentError` like
  * `computeMeasurements`, and RangeError for a negative or non-finite σ.
  */
@@ -111,8 +114,13 @@ export function computeUncertainty(
   const sigmaYPx = spacing === null ? sigmaPx : sigmaMm / spacing.rowMm
 
   const base = measurePrepared(prepared)
+  // Unsigned frontal angles are differentiated through their signed form (|θ| has no
+  // derivative at 0); both trees have the same keys in the same order.
   const paths = numericLeafPaths(base)
   const isAngle = paths.map((path) => (path[path.length - 1] ?? '').endsWith('Deg'))
+  const isFolded = paths.map(
+    (path) => path[0] === 'frontal' && FRONTAL_UNSIGNED_ANGLE_KEYS.has(path[path.length - 1] ?? ''),
+  )
   const variance = new Float64Array(paths.length)
   const broken = new Uint8Array(paths.length)
 
@@ -124,8 +132,8 @@ export function computeUncertainty(
       const step = sigma * STEP_FRACTION_OF_SIGMA
       const shifted = (delta: number): Point =>
         axis === 0 ? [point[0] + delta, point[1]] : [point[0], point[1] + delta]
-      const plus = measurePrepared(perturbed(prepared, name, shifted(step)))
-      const minus = measurePrepared(perturbed(prepared, name, shifted(-step)))
+      const plus = measurePrepared(perturbed(prepared, name, shifted(step)), 'signed')
+      const minus = measurePrepared(perturbed(prepared, name, shifted(-step)), 'signed')
       paths.forEach((path, k) => {
         const difference = numberAtPath(plus, path) - numberAtPath(minus, path)
         if (!Number.isFinite(difference)) {
@@ -142,7 +150,9 @@ export function computeUncertainty(
   const measurements = mapNumericLeaves(base, (value, k): ValueInterval | null => {
     const sd = standardDeviations[k]
     if (sd === null || sd === undefined) return null
-    return { value, standardDeviation: sd, low: value - Z_95 * sd, high: value + Z_95 * sd }
+    // An unsigned angle cannot go below 0: its interval is the signed one folded at 0.
+    const low = isFolded[k] ? Math.max(0, value - Z_95 * sd) : value - Z_95 * sd
+    return { value, standardDeviation: sd, low, high: value + Z_95 * sd }
   }) as IntervalTree<MeasurementResult>
 
   // Keys follow the measured segments; null where the slip interval could not be formed.

@@ -6,5 +6,6 @@ export {
 } from './overlay-shapes'
 export { overlayNumberText } from './overlay-labels'
 export { lateralOverlayShapes } from './lateral-overlays'
+export { frontalOverlayShapes } from './frontal-overlays'
 export { OVERLAY_BUILDERS, readingOverlayShapes, type OverlayBuilder } from './reading-overlays'
 export { overlaySvg, type OverlaySvgOptions } from './overlay-svg'

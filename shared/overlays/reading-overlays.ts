@@ -2,6 +2,7 @@ import type { ReadingTemplate } from '../types/domain'
 import type { MeasurementResult } from '../types/measurement'
 import type { OverlayPoints, OverlayShape } from './overlay-shapes'
 import { lateralOverlayShapes } from './lateral-overlays'
+import { frontalOverlayShapes } from './frontal-overlays'
 
 /** Builds the overlays of one film of a reading from its landmarks (image px) and results. */
 export type OverlayBuilder = (
@@ -10,14 +11,15 @@ export type OverlayBuilder = (
 ) => OverlayShape[]
 
 /**
- * The overlay builder of each reading template. Every template read today is on a lateral film;
- * a template on another projection (a frontal film, say) adds its own builder here.
+ * The overlay builder of each reading template: the lateral one for templates read on a lateral
+ * film, the frontal one for implant centring on an AP film. A new template adds its builder here.
  */
 export const OVERLAY_BUILDERS: Record<ReadingTemplate, OverlayBuilder> = {
   'slip-grade': lateralOverlayShapes,
   'lumbar-alignment': lateralOverlayShapes,
   'construct-check': lateralOverlayShapes,
   'motion-pair': lateralOverlayShapes,
+  'implant-centring': frontalOverlayShapes,
 }
 
 /**

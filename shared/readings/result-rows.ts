@@ -1,6 +1,8 @@
 import type { SpacingSource } from '../types/domain'
 import type {
   DiscHeights,
+  FrontalImageRightSide,
+  FrontalSegmentMeasurement,
   IntervalTree,
   MeasurementResult,
   MeyerdingUncertainty,
@@ -13,7 +15,8 @@ import type {
 } from '../types/measurement'
 import type { ReadingTemplate } from '../types/domain'
 import type { TemplateOptions } from './templates'
-import { MEYERDING_RULE, SOURCES } from '../measurement/index'
+import { frontalSideWords, implantCentring, MEYERDING_RULE, SOURCES } from '../measurement/index'
+import { sourceWords } from './source-words'
 
 /** Where a film's mm scale comes from, in the words shown beside every mm value. */
 export const SPACING_SOURCE_LABELS: Record<SpacingSource, string> = {
@@ -556,12 +559,147 @@ function subsidenceSection(
   }
 }
 
+/** "2.1 mm toward patient left": the size of a signed offset and the side it points to. */
+function offsetText(
+  value: number | null,
+  digits: number,
+  unit: string,
+  side: FrontalImageRightSide,
+): string {
+  if (value === null || !Number.isFinite(value)) return '—'
+  const size = withUnit(Math.abs(value), digits, unit)
+  if (Number(Math.abs(value).toFixed(digits)) === 0) return `${size} (centred)`
+  return `${size} toward ${frontalSideWords(side, value > 0 ? 'r' : 'l')}`
+}
+
+/** Implant centring of one segment on the frontal film, with its threshold and rotation notes. */
+export function centringSection(
+  segmentName: SegmentName,
+  film: FilmResults,
+  imageRightSide: FrontalImageRightSide,
+): ResultSection {
+  const title = `${segmentName} · disc replacement, frontal`
+  const segment: FrontalSegmentMeasurement | undefined = film.measurements?.frontal[segmentName]
+  if (!segment) {
+    return {
+      id: `${segmentName}-frontal`,
+      title,
+      rows: [],
+      flags: [
+        {
+          id: `${segmentName}-frontal-missing`,
+          tone: 'info',
+          text: `Place the endplate corners above and below ${segmentName} to see its centring.`,
+        },
+      ],
+    }
+  }
+  const intervals = film.uncertainty?.measurements.frontal?.[segmentName]
+  const calibration = SPACING_SOURCE_SHORT[film.spacingSource]
+  const offsetSource = sourceWords(SOURCES.frontalOffset)
+  const offsetMm = row(
+    `${segmentName}-frontal-offset`,
+    'Offset from midline',
+    segment.lateralOffsetMm,
+    intervals?.lateralOffsetMm,
+    'mm',
+    offsetSource,
+    { calibration, emphasis: true },
+  )
+  const offsetPercent = row(
+    `${segmentName}-frontal-offset-percent`,
+    'Offset (of endplate width)',
+    segment.lateralOffsetPercent,
+    intervals?.lateralOffsetPercent,
+    '%',
+    offsetSource,
+  )
+  const rows: ResultRow[] = [
+    { ...offsetMm, value: offsetText(segment.lateralOffsetMm, 1, 'mm', imageRightSide) },
+    { ...offsetPercent, value: offsetText(segment.lateralOffsetPercent, 1, '%', imageRightSide) },
+    row(
+      `${segmentName}-frontal-tilt`,
+      'Implant coronal tilt',
+      segment.implantTiltDeg,
+      intervals?.implantTiltDeg,
+      '°',
+      sourceWords(SOURCES.frontalTilt),
+    ),
+    row(
+      `${segmentName}-frontal-segment-angle`,
+      'Segment coronal angle',
+      segment.segmentCoronalAngleDeg,
+      intervals?.segmentCoronalAngleDeg,
+      '°',
+      sourceWords(SOURCES.frontalSegmentAngle),
+    ),
+    row(
+      `${segmentName}-frontal-width`,
+      'Endplate width',
+      segment.endplateWidthMm,
+      intervals?.endplateWidthMm,
+      'mm',
+      sourceWords(SOURCES.frontalOffset),
+      { calibration },
+    ),
+  ]
+  const centring = implantCentring({ frontal: { [segmentName]: segment } }, { imageRightSide })
+  const offCentre = centring?.segments[segmentName]?.offCentre ?? null
+  const flags: ResultFlag[] = []
+  if (offCentre === true) {
+    flags.push({
+      id: `${segmentName}-off-centre`,
+      tone: 'warn',
+      text: `The disc replacement at ${segmentName} sits more than ${centring?.thresholdMm} mm off the body midline.`,
+      source: offsetSource,
+    })
+  } else if (offCentre === null && segment.lateralOffsetPercent !== null) {
+    flags.push({
+      id: `${segmentName}-off-centre-unknown`,
+      tone: 'info',
+      text: `The ${centring?.thresholdMm} mm centring check needs a calibrated film.`,
+      source: offsetSource,
+    })
+  }
+  if (segment.rotationPercent !== null) {
+    const side = frontalSideWords(imageRightSide, segment.rotationPercent > 0 ? 'r' : 'l')
+    flags.push({
+      id: `${segmentName}-rotation`,
+      tone: 'info',
+      text: `Film rotation check: the ${segmentName.split('-')[0]} spinous process lies ${fixed(Math.abs(segment.rotationPercent), 0)} % of the half-width toward ${side}. A large value means a rotated film; read the offset with care.`,
+      source: sourceWords(SOURCES.frontalRotation),
+    })
+  }
+  return { id: `${segmentName}-frontal`, title, rows, flags }
+}
+
+/** How the sides of a frontal film are named, from its Patient Orientation when it has one. */
+function frontalSidesSection(imageRightSide: FrontalImageRightSide): ResultSection {
+  return {
+    id: 'frontal-sides',
+    title: 'Sides',
+    rows: [],
+    flags: [
+      {
+        id: 'frontal-sides',
+        tone: 'info',
+        text:
+          imageRightSide === 'unknown'
+            ? 'The file gives no patient orientation: sides are named as seen on the image (image right, image left).'
+            : `Sides from the file's Patient Orientation: the image's right edge is the ${imageRightSide === 'patient-left' ? "patient's left" : "patient's right"}.`,
+      },
+    ],
+  }
+}
+
 export interface WorkspaceResultsInput {
   template: ReadingTemplate
   options: TemplateOptions
   primary: FilmResults
   paired: FilmResults | null
   motion: Partial<Record<SegmentName, MotionSegmentResult>> | null
+  /** Implant centring: which patient side the image's right edge shows (default unknown). */
+  imageRightSide?: FrontalImageRightSide
   /** Construct check: the server's subsidence results of the last saved draft. */
   subsidence?: {
     results: Record<string, SubsidenceResult> | null
@@ -599,6 +737,13 @@ export function workspaceResultSections(input: WorkspaceResultsInput): ResultSec
         ...(input.paired
           ? [segmentSection(segment, input.paired, `Extension film ${segment}`, { discs: false })]
           : []),
+      ]
+    case 'implant-centring':
+      return [
+        ...(input.options.discReplacements ?? []).map((treated) =>
+          centringSection(treated, input.primary, input.imageRightSide ?? 'unknown'),
+        ),
+        frontalSidesSection(input.imageRightSide ?? 'unknown'),
       ]
   }
 }

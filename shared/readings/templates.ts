@@ -4,13 +4,26 @@
  */
 import type { MotionSegment, ReadingTemplate } from '../types/domain'
 
-export type LandmarkKind = 'corner' | 'sacral-wall' | 'femoral-head' | 'cage' | 'implant-marker'
+export type LandmarkKind =
+  | 'corner'
+  | 'sacral-wall'
+  | 'femoral-head'
+  | 'cage'
+  | 'implant-marker'
+  | 'frontal-corner'
+  | 'frontal-implant'
+  | 'spinous-process'
 
 export interface LandmarkSpec {
   name: string
   label: string
   hint: string
   kind: LandmarkKind
+  /**
+   * Why a reading may be submitted without this landmark; absent for a required one. The
+   * rule that reads it lives in ./reading-rules.
+   */
+  optionalBecause?: string
 }
 
 /** What a template needs to know beyond its name. */
@@ -19,6 +32,8 @@ export interface TemplateOptions {
   segment?: MotionSegment
   /** Construct check: the treated segments and the implant at each. */
   construct?: Array<{ segment: MotionSegment; implant: 'cage' | 'disc-replacement' }>
+  /** Implant centring: the segments with a disc replacement, read on the frontal film. */
+  discReplacements?: MotionSegment[]
 }
 
 export const TEMPLATE_LABELS: Record<ReadingTemplate, string> = {
@@ -26,6 +41,7 @@ export const TEMPLATE_LABELS: Record<ReadingTemplate, string> = {
   'lumbar-alignment': 'Lumbar alignment',
   'construct-check': 'Construct check',
   'motion-pair': 'Motion pair',
+  'implant-centring': 'Implant centring (AP)',
 }
 
 const CORNER_WORDS = {
@@ -67,6 +83,7 @@ const femoralHeads: LandmarkSpec[] = [
     label: 'Femoral head centre 2',
     hint: 'Centre of the other femoral head; skip it when the heads superimpose.',
     kind: 'femoral-head',
+    optionalBecause: 'when the two heads superimpose, the first one is the hip axis',
   },
 ]
 
@@ -104,6 +121,46 @@ function markerLandmark(segment: MotionSegment): LandmarkSpec {
   }
 }
 
+/**
+ * A disc replacement's segment on a frontal (AP) film: the lateral ends of the endplates around
+ * it, the implant's two lateral ends and the spinous process of the upper vertebra. `l` and `r`
+ * are the ends nearer the image's left and right edges, whichever patient side that is.
+ */
+function centringLandmarks(segment: MotionSegment): LandmarkSpec[] {
+  const [upper, lower] = vertebraeOf(segment)
+  const end = (side: 'l' | 'r') => (side === 'l' ? 'image-left' : 'image-right')
+  const endplate = (vertebra: string, where: 'i' | 's', side: 'l' | 'r'): LandmarkSpec => {
+    const plate = where === 'i' ? 'inferior' : 'superior'
+    return {
+      name: `${vertebra}.${where}${side}`,
+      label: `${vertebra} ${plate} endplate, ${end(side)} end`,
+      hint: `The lateral corner of the ${vertebra} ${plate} endplate nearer the image's ${side === 'l' ? 'left' : 'right'} edge.`,
+      kind: 'frontal-corner',
+    }
+  }
+  const implant = (side: 'l' | 'r'): LandmarkSpec => ({
+    name: `tdr.${segment}.${side}`,
+    label: `Disc replacement ${segment}, ${end(side)} end`,
+    hint: `The lateral end of the disc replacement (its lower plate) nearer the image's ${side === 'l' ? 'left' : 'right'} edge.`,
+    kind: 'frontal-implant',
+  })
+  return [
+    endplate(upper, 'i', 'l'),
+    endplate(upper, 'i', 'r'),
+    endplate(lower, 's', 'l'),
+    endplate(lower, 's', 'r'),
+    implant('l'),
+    implant('r'),
+    {
+      name: `${upper}.sp`,
+      label: `${upper} spinous process tip`,
+      hint: `The tip of the ${upper} spinous process, seen end-on between the pedicles: checks film rotation.`,
+      kind: 'spinous-process',
+      optionalBecause: 'it only checks the film for rotation',
+    },
+  ]
+}
+
 /** Every landmark a template asks for, in the order the checklist offers them. */
 export function templateLandmarks(
   template: ReadingTemplate,
@@ -133,10 +190,17 @@ export function templateLandmarks(
       }
       return specs
     }
+    case 'implant-centring':
+      return (options.discReplacements ?? []).flatMap(centringLandmarks)
   }
 }
 
 /** The second film of a motion pair carries the same landmarks as the first. */
 export function templateNeedsPairedImage(template: ReadingTemplate): boolean {
   return template === 'motion-pair'
+}
+
+/** Implant centring is read on a frontal (AP) film; every other template on a lateral one. */
+export function templateReadsFrontalFilm(template: ReadingTemplate): boolean {
+  return template === 'implant-centring'
 }

@@ -3,12 +3,12 @@ import type { SegmentName } from '../types/measurement'
 import type { PatientPlan, PlanSegment } from '../types/plans'
 import type { ReportSignOff, ReportTable } from '../types/reports'
 import type { ResultSection } from '../readings/result-rows'
-import { plainCitation } from '../readings/plain-citation'
+import { sourceWords } from '../readings/source-words'
 import { changeIntervalText, changeText, intervalText, measureText } from './measure-text'
 
 /** A flag or remark with its source in plain words. */
 function withSource(text: string, source: string | undefined): string {
-  return source ? `${text} Source: ${plainCitation(source)}.` : text
+  return source ? `${text} Source: ${sourceWords(source)}.` : text
 }
 
 /**
@@ -21,7 +21,7 @@ export function resultTables(sections: readonly ResultSection[]): ReportTable[] 
   return sections.map((section) => {
     const sources: string[] = []
     const reference = (source: string) => {
-      const plain = plainCitation(source)
+      const plain = sourceWords(source)
       if (!sources.includes(plain)) sources.push(plain)
       return `[${sources.indexOf(plain) + 1}]`
     }
@@ -96,7 +96,7 @@ export function planCheckTable(
     })
     for (const check of segment.checks)
       rows.push({
-        cells: [segment.segment, check.label, verdict(check.flagged), plainCitation(check.source)],
+        cells: [segment.segment, check.label, verdict(check.flagged), sourceWords(check.source)],
       })
     if (segment.recordedInstability)
       rows.push({
@@ -104,7 +104,7 @@ export function planCheckTable(
           segment.segment,
           segment.recordedInstability.label,
           verdict(segment.recordedInstability.flagged),
-          plainCitation(segment.recordedInstability.source),
+          sourceWords(segment.recordedInstability.source),
         ],
       })
   }
@@ -114,7 +114,7 @@ export function planCheckTable(
         'L1–S1',
         'Target lordosis (0.54·PI + 27.6) against the lordosis the plan expects',
         `${measureText(plan.lordosis.targetLordosisDeg, '°')} against ${measureText(plan.lordosis.expectedLordosisDeg, '°')} (an estimate)`,
-        plainCitation(plan.lordosis.source),
+        sourceWords(plan.lordosis.source),
       ],
     })
   }
@@ -170,7 +170,7 @@ export function comparisonTables(
           changeText(row.differenceDeg, '°'),
         ],
       })),
-      notes: [...new Set(table.plan.map((row) => plainCitation(row.source)))],
+      notes: [...new Set(table.plan.map((row) => sourceWords(row.source)))],
     })
   }
   if (table.motion.length) {
@@ -184,7 +184,7 @@ export function comparisonTables(
           `${row.segment} (reading ${row.readingId})`,
           measureText(row.rangeOfMotionDeg, '°'),
           `${measureText(row.translationMm, 'mm')} · ${measureText(row.translationPercent, '%')}`,
-          row.flaggedBy.length ? row.flaggedBy.map(plainCitation).join('; ') : 'none',
+          row.flaggedBy.length ? row.flaggedBy.map(sourceWords).join('; ') : 'none',
         ],
       })),
       notes: [],
@@ -209,7 +209,7 @@ export function comparisonTables(
               : 'not assessable (no mm scale)',
         ],
       })),
-      notes: [...new Set(table.subsidence.map((row) => plainCitation(row.source)))],
+      notes: [...new Set(table.subsidence.map((row) => sourceWords(row.source)))],
     })
   }
   return tables

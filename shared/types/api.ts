@@ -183,6 +183,12 @@ export interface DicomSummary {
   bitsStored: number | null
   studyDate: string | null
   acquisitionDate: string | null
+  /**
+   * Patient Orientation (0020,0020) as [row direction, column direction], e.g. ["L", "F"]: on
+   * a frontal film the first says which patient side the image's right edge shows. Null when
+   * the file has none.
+   */
+  patientOrientation: [row: string, column: string] | null
   /** Only for roles that may see identified data. */
   patient?: { name: string | null; id: string | null; birthDate: string | null; sex: string | null }
 }

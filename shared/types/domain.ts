@@ -45,6 +45,7 @@ export const READING_TEMPLATES = [
   'lumbar-alignment',
   'construct-check',
   'motion-pair',
+  'implant-centring',
 ] as const
 export type ReadingTemplate = (typeof READING_TEMPLATES)[number]
 

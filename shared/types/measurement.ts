@@ -59,6 +59,35 @@ export interface SegmentMeasurement {
   implantOffsetMm: number | null
 }
 
+/**
+ * Implant centring of one segment on a frontal (AP) film (measurement-reference §11) [D]. With
+ * e = unit((U.ir − U.il) + (W.sr − W.sl)), m the mean of the four endplate corners and q the
+ * midpoint of the implant's two ends: the lateral offset is (q − m)·e, positive toward the `r`
+ * side (the side nearer the image's right edge; which patient side that is comes from the
+ * film's Patient Orientation). Present when the four endplate corners are placed; implant
+ * values null without both implant ends, mm values null without calibration.
+ */
+export interface FrontalSegmentMeasurement {
+  /** mean(|U.ir − U.il|, |W.sr − W.sl|) in mm; null when uncalibrated. */
+  endplateWidthMm: number | null
+  /** (q − m)·e in mm, positive toward the r side; null uncalibrated or without the implant. */
+  lateralOffsetMm: number | null
+  /** The same in pixels of the image grid (projected on the pixel-space e). */
+  lateralOffsetPx: number | null
+  /** 100 · offset / endplate width, positive toward the r side. */
+  lateralOffsetPercent: number | null
+  /** Unsigned angle between e and tdr.r − tdr.l, degrees [0, 180]. */
+  implantTiltDeg: number | null
+  /** Unsigned angle between U.il→U.ir and W.sl→W.sr, degrees [0, 180]. */
+  segmentCoronalAngleDeg: number | null
+  /**
+   * 100 · ((U.sp − mid(U.il, U.ir))·e) / (w/2): the spinous process off the body midline, % of
+   * the half-width, positive toward the r side; a film-rotation check (common practice), not a
+   * measure. Null without U.sp.
+   */
+  rotationPercent: number | null
+}
+
 /** Pelvic parameters (Legaye et al. 1998 [V]); null members when no hip axis is given. */
 export interface PelvisMeasurement {
   incidenceDeg: number | null
@@ -91,6 +120,11 @@ export interface MeasurementResult {
   targetLordosisDeg: number | null
   /** The spacing used for every mm value; null when uncalibrated (mm values are then null). */
   calibration: CalibrationSummary | null
+  /**
+   * Frontal (AP) film: implant centring of each segment whose four endplate corners are placed;
+   * `{}` for a lateral film.
+   */
+  frontal: Partial<Record<SegmentName, FrontalSegmentMeasurement>>
 }
 
 /** A 95 % interval around a value from first-order propagation of landmark placement error. */
@@ -186,6 +220,20 @@ export interface SubsidenceResult {
   source: string
   /** Only the segments measured on both readings. */
   segments: Partial<Record<SegmentName, SubsidenceSegmentResult>>
+}
+
+/** Which patient side the image's right edge shows on a frontal film, when the file says. */
+export type FrontalImageRightSide = 'patient-left' | 'patient-right' | 'unknown'
+
+/** The threshold check of each frontal segment, with the side naming of the film. */
+export interface ImplantCentringResult {
+  /** Flag a lateral offset above this many mm (a site setting, default 3 mm). */
+  thresholdMm: number
+  source: string
+  /** From DICOM Patient Orientation; 'unknown' means offsets are named "image right". */
+  imageRightSide: FrontalImageRightSide
+  /** One entry per measured frontal segment: null when the offset has no mm value. */
+  segments: Partial<Record<SegmentName, { offCentre: boolean | null }>>
 }
 
 /** Treatments a plan can record for a segment. */

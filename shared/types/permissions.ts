@@ -16,7 +16,12 @@ export const PERMISSIONS = {
   'reading:write': ['surgeon', 'fellow'],
   'reading:sign': ['surgeon'],
   'measurement:compute': ['admin', 'surgeon', 'fellow', 'researcher'],
-  'study:manage': ['researcher'],
+  /** Open studies: researchers only those they belong to. */
+  'study:read': ['admin', 'surgeon', 'researcher'],
+  /** Create and edit studies, choose their patients and researcher members. */
+  'study:manage': ['admin', 'surgeon'],
+  /** Measurement tables as CSV or XLSX: de-identified for researchers. */
+  'export:measurements': ['surgeon', 'researcher'],
   'user:manage': ['admin'],
   'audit:read': ['admin'],
   'settings:write': ['admin'],

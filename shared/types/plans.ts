@@ -7,6 +7,7 @@ import type {
   VisitKind,
 } from './domain'
 import type {
+  FrontalImageRightSide,
   MeyerdingGrade,
   PiLlBand,
   PlanCheckFlag,
@@ -42,6 +43,37 @@ export interface SegmentEvidence {
   currentSegmentalLordosisDeg: MeasuredValue | null
 }
 
+/** A disc replacement's position on the frontal film: its lateral offset and tilt. */
+export interface FrontalImplantPosition {
+  /** Offset of the implant centre from the body midline, mm, positive toward image right. */
+  lateralOffsetMm: number | null
+  /** The same as % of the endplate width. */
+  lateralOffsetPercent: number | null
+  /** Implant coronal tilt against the endplates, degrees. */
+  implantTiltDeg: number | null
+  /** Above the centring threshold; null without calibration. */
+  offCentre: boolean | null
+  thresholdMm: number
+  /** Which patient side the film's right edge shows (DICOM Patient Orientation). */
+  imageRightSide: FrontalImageRightSide
+}
+
+/**
+ * Where a disc replacement sits after surgery, from the latest submitted or signed post-op or
+ * follow-up readings: along the endplate on the lateral film (construct check) and against
+ * the body midline on the frontal film (implant centring).
+ */
+export interface ImplantPositionEvidence {
+  /** Marker position along W's superior endplate, % of its depth from the posterior edge. */
+  lateralPositionPercent: MeasuredValue | null
+  /** Marker offset from the endplate middle, mm, negative posterior. */
+  lateralOffsetMm: MeasuredValue | null
+  frontal: MeasuredValue<FrontalImplantPosition> | null
+  /** What the lateral and frontal values rest on, in plain words. */
+  lateralSource: string
+  frontalSource: string
+}
+
 export interface PlanSegment {
   segment: MotionSegment
   /** Findings are null while the segment was never saved: not recorded, which is not "absent". */
@@ -61,6 +93,8 @@ export interface PlanSegment {
   evidence: SegmentEvidence
   /** Disc-replacement checks; empty for other treatments. */
   checks: PlanCheckFlag[]
+  /** Disc replacement only: the implant's position after surgery; null for other treatments. */
+  implantPosition: ImplantPositionEvidence | null
   /**
    * Disc replacement only: instability recorded as a finding (the measured check is translation
    * over 5 mm). Null for other treatments.

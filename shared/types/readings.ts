@@ -1,5 +1,6 @@
 import type { LandmarkDocument, PixelPoint } from './landmarks'
 import type {
+  ImplantCentringResult,
   MeasurementResult,
   MotionPairResult,
   SubsidenceResult,
@@ -27,6 +28,11 @@ export interface ReadingResults {
   subsidence: Record<string, SubsidenceResult & { baselineReadingId: number }> | null
   /** The earliest baseline reading used, when there is one. */
   subsidenceBaselineReadingId: number | null
+  /**
+   * Implant centring only: the off-centre check of each frontal segment at the site threshold,
+   * and which patient side the film's right edge shows. Absent on results stored before it.
+   */
+  centring?: ImplantCentringResult | null
 }
 
 export interface Reading {

@@ -15,6 +15,7 @@ declare global {
   interface Window {
     __endplateFrameTimes?: FrameTiming[]
     __endplateFirstPaintMs?: number
+    __endplateFullDepthPaintMs?: number
   }
 }
 
@@ -29,4 +30,10 @@ export function recordFrameTime(timing: FrameTiming): void {
 export function recordFirstPaint(milliseconds: number): void {
   if (frameProbeEnabled() && window.__endplateFirstPaintMs === undefined)
     window.__endplateFirstPaintMs = milliseconds
+}
+
+/** When the first full-depth (16-bit, windowed) picture of the film was drawn. */
+export function recordFullDepthPaint(milliseconds: number): void {
+  if (frameProbeEnabled() && window.__endplateFullDepthPaintMs === undefined)
+    window.__endplateFullDepthPaintMs = milliseconds
 }

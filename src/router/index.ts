@@ -14,6 +14,8 @@ export type RouteName =
   | 'patients'
   | 'patient'
   | 'reading-workspace'
+  | 'studies'
+  | 'study'
   | 'administration'
   | 'not-found'
   | 'compare'
@@ -103,6 +105,19 @@ const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
     component: () => import('@/views/ReportPrintView.vue'),
     props: (route) => ({ kind: 'visit', id: Number(route.params.visitId) }),
     meta: { permission: 'patient:read', title: 'Visit report' },
+  },
+  {
+    path: '/studies',
+    name: 'studies',
+    component: () => import('@/views/StudiesView.vue'),
+    meta: { permission: 'study:read', title: 'Studies' },
+  },
+  {
+    path: '/studies/:studyId',
+    name: 'study',
+    component: () => import('@/views/StudyView.vue'),
+    props: (route) => ({ studyId: Number(route.params.studyId) }),
+    meta: { permission: 'study:read', title: 'Study' },
   },
   {
     path: '/administration',

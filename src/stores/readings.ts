@@ -4,6 +4,7 @@ import type { ImageRecord, Visit } from '@shared/types/api'
 import type { PixelPoint } from '@shared/types/landmarks'
 import type { Reading } from '@shared/types/readings'
 import { templateLandmarks, templateNeedsPairedImage } from '@shared/readings/templates'
+import { missingRequiredLandmarks, submitRefusal } from '@shared/readings/reading-rules'
 import { getReading, patchReading, submitReading } from '@/api/readings'
 import { getVisit } from '@/api/visits'
 import { calibrateImage, getImage } from '@/api/images'
@@ -23,8 +24,6 @@ interface Snapshot {
 export const AUTOSAVE_DELAY_MS = 800
 /** Waits between retries while the server cannot be reached; the last one repeats. */
 export const RETRY_DELAYS_MS = [1000, 2000, 4000, 8000, 15000, 30000] as const
-/** Landmarks a reading may be submitted without (the template hint says when to skip them). */
-export const OPTIONAL_LANDMARKS: ReadonlySet<string> = new Set(['FH2'])
 
 const RETRYABLE_STATUSES = new Set([0, 502, 503, 504])
 
@@ -99,19 +98,26 @@ export const useReadingsStore = defineStore('readings', () => {
   const nextName = computed(
     () => specs.value.find((spec) => !(spec.name in activePoints.value))?.name ?? null,
   )
-  const missingRequired = computed(() => {
-    const missing: string[] = []
-    const sides: FilmSide[] = isPair.value ? ['primary', 'paired'] : ['primary']
-    for (const side of sides) {
-      for (const spec of specs.value) {
-        if (!OPTIONAL_LANDMARKS.has(spec.name) && !(spec.name in sidePoints(side).value))
-          missing.push(spec.name)
-      }
-    }
-    return missing
-  })
+  /** The reading as the shared rules see it (shared/readings/reading-rules, as the server). */
+  const ruleInput = computed(() =>
+    reading.value
+      ? {
+          template: reading.value.template,
+          options: reading.value.options,
+          points: points.value,
+          pairedPoints: isPair.value ? pairedPoints.value : null,
+        }
+      : null,
+  )
+  const missingRequired = computed(() =>
+    ruleInput.value ? missingRequiredLandmarks(ruleInput.value).map((item) => item.name) : [],
+  )
+  /** Why Submit is refused now, in the server's words; null when it may be submitted. */
+  const submitBlocked = computed(() =>
+    ruleInput.value ? (submitRefusal(ruleInput.value)?.message ?? null) : null,
+  )
   const canSubmit = computed(
-    () => !readOnly.value && missingRequired.value.length === 0 && saveState.value !== 'conflict',
+    () => !readOnly.value && submitBlocked.value === null && saveState.value !== 'conflict',
   )
   const canUndo = computed(() => !readOnly.value && undoStack.value.length > 0)
   const canRedo = computed(() => !readOnly.value && redoStack.value.length > 0)
@@ -492,6 +498,7 @@ export const useReadingsStore = defineStore('readings', () => {
     activePoints,
     nextName,
     missingRequired,
+    submitBlocked,
     canSubmit,
     canUndo,
     canRedo,

@@ -4,7 +4,7 @@
  * (browsers hand canvases 8 bits only), then maps every pixel through a 65 536-entry lookup
  * table for each window asked for and sends back one bitmap for Konva.
  */
-import { decodeGreyPng, type GreyImage } from './grey-png'
+import { decodeFilmPng, type GreyImage } from './film-png'
 import { windowLookupTableLinear } from './window-lookup'
 
 export type FilmWindowRequest =
@@ -27,7 +27,7 @@ self.onmessage = async (event: MessageEvent<FilmWindowRequest>) => {
   const request = event.data
   try {
     if (request.type === 'decode') {
-      film = await decodeGreyPng(new Uint8Array(request.buffer))
+      film = decodeFilmPng(new Uint8Array(request.buffer))
       let minValue = 65535
       let maxValue = 0
       for (const value of film.pixels) {

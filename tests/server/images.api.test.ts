@@ -14,6 +14,8 @@ import { openTestDb, truncateAll } from '../support/test-db'
 import { buildTestApp, createUsersForEveryRole, type TestUser } from '../support/test-app'
 import { insertStudyWith, insertTestPatient, insertTestVisit } from '../support/fixtures'
 import { smallPhantomFiles } from '../support/phantom-files'
+import { writeTestDicom } from './unit/images/dicom-fixture'
+import { deflateBomb } from './unit/images/part10-writer'
 
 let db: Db
 let app: Express
@@ -176,6 +178,24 @@ describe('POST /api/visits/:id/images', () => {
     const again = await upload(users.fellow, files.dicom, 'b.dcm')
     expect(again.status).toBe(409)
     expect(await db(TABLES.images).count({ c: '*' })).toEqual([{ c: 1 }])
+  })
+
+  it('files nothing of a several-file upload when one of its films fails at filing', async () => {
+    // The PNG is new; the same DICOM twice in one request fails on the second copy, under the
+    // lock, after the PNG's and the first DICOM's files were moved in: all of it is undone.
+    const res = await request(app)
+      .post(`/api/visits/${visitId}/images`)
+      .set('Cookie', users.fellow.cookie)
+      .field('view', 'lateral-neutral')
+      .field('confirmPatientMismatch', 'true')
+      .attach('file', files.png, 'new.png')
+      .attach('file', files.dicom, 'first.dcm')
+      .attach('file', files.dicom, 'second.dcm')
+    expect(res.status).toBe(409)
+    expect(res.body.error.message).toMatch(/second\.dcm/)
+    expect(await db(TABLES.images).count({ c: '*' })).toEqual([{ c: 0 }])
+    expect(await db(TABLES.filmFiles).count({ c: '*' })).toEqual([{ c: 0 }])
+    expect(filesOnDisk()).toEqual([])
   })
 
   it.each([
@@ -447,5 +467,85 @@ describe('broken uploads and missing files', () => {
       .set('Cookie', users.fellow.cookie)
     expect(res.status).toBe(404)
     expect(res.headers['cache-control'] ?? 'none').not.toMatch(/immutable/)
+  })
+})
+
+describe('spacing a radiograph cannot have', () => {
+  it('files a DICOM with Pixel Spacing 1e308\\1e308 as uncalibrated, with a note giving the range', async () => {
+    const dicom = writeTestDicom({
+      width: 64,
+      height: 48,
+      attributes: { PixelSpacing: [1e308, 1e308], PixelSpacingCalibrationType: 'GEOMETRY' },
+    })
+    const res = await upload(users.fellow, dicom, 'absurd.dcm', {
+      view: 'lateral-neutral',
+      confirmPatientMismatch: 'true',
+    })
+    expect(res.status).toBe(201)
+    expect(res.body[0].mmPerPixel).toBeNull()
+    expect(res.body[0].spacingSource).toBe('none')
+    expect(res.body[0].spacingNote).toMatch(/outside the 0\.01–5 mm/)
+  })
+
+  it('keeps the angles and percentages of a reading on a film whose stored spacing is absurd', async () => {
+    const [image] = (await upload(users.fellow, files.png, 'film.png', { view: 'lateral-neutral' }))
+      .body
+    // A row written before the range check existed.
+    await db(TABLES.images).where({ id: image.id }).update({
+      mm_per_pixel_row: 1e308,
+      mm_per_pixel_column: 1e308,
+      spacing_source: 'dicom-pixel-spacing',
+    })
+    // Example 1 of the measurement literature scaled into the 750 × 625 film: a 30 px slip over
+    // a 300 px S1 endplate is 10 % (Taillard, as described by Butt & Saifuddin 2005).
+    const points = {
+      'L5.as': [410, 300],
+      'L5.ps': [110, 300],
+      'L5.pi': [130, 540],
+      'L5.ai': [430, 540],
+      'S1.ps': [100, 600],
+      'S1.as': [400, 600],
+    }
+    const res = await request(app)
+      .post(`/api/images/${image.id}/readings`)
+      .set('Cookie', users.fellow.cookie)
+      .send({ template: 'slip-grade', options: { segment: 'L5-S1' }, points })
+    expect(res.status).toBe(201)
+    const segment = res.body.results.measurements.segments['L5-S1']
+    expect(segment.slipPercent).toBeCloseTo(10, 9)
+    expect(segment.segmentalLordosisDeg).not.toBeNull()
+    expect(segment.slipMm).toBeNull()
+  })
+
+  it('refuses a manual calibration that gives a spacing outside 0.01–5 mm', async () => {
+    const [image] = (await upload(users.fellow, files.png, 'film.png', { view: 'lateral-neutral' }))
+      .body
+    // 1000 mm over 10 px is 100 mm per pixel.
+    const res = await request(app)
+      .patch(`/api/images/${image.id}/calibration`)
+      .set('Cookie', users.fellow.cookie)
+      .send({
+        line: [
+          [0, 0],
+          [10, 0],
+        ],
+        lengthMm: 1000,
+        version: image.version,
+      })
+    expect(res.status).toBe(400)
+    expect(res.body.error.message).toMatch(/0\.01–5 mm/)
+    const stored = await db(TABLES.images).where({ id: image.id }).first()
+    expect(stored.mm_per_pixel_row).toBeNull()
+  })
+})
+
+describe('hostile files', () => {
+  it('refuses a deflated DICOM that would inflate to 2 GiB with 422, and files nothing', async () => {
+    const bomb = deflateBomb(2 * 2 ** 30 - 2)
+    const res = await upload(users.fellow, bomb, 'bomb.dcm', { view: 'lateral-neutral' })
+    expect(res.status).toBe(422)
+    expect(res.body.error.message).toMatch(/bomb\.dcm: .*inflates to more than/)
+    expect(await db(TABLES.images).count({ n: '*' })).toEqual([{ n: 0 }])
+    expect(filesOnDisk()).toEqual([])
   })
 })

@@ -71,8 +71,6 @@ describe('POST /api/measurements/compute', () => {
 
   it.each([
     [{ points: { 'L9.as': [1, 2] } }, /L9\.as/],
-    [{ points: { 'L5.as': [1, 'x'] } }, /L5\.as/],
-    [{ mmPerPixel: -1, points: {} }, /mmPerPixel|spacing/i],
     [{ points: { ...example1.points, 'S1.as': [1000, 2000] } }, /S1|endplate|zero/i],
   ])('answers 400 with the engine message for %j', async (body, message) => {
     const res = await request(app)
@@ -82,5 +80,49 @@ describe('POST /api/measurements/compute', () => {
     expect(res.status).toBe(400)
     expect(res.body.error.code).toBe('invalid_landmarks')
     expect(res.body.error.message).toMatch(message)
+  })
+
+  // The same checks as a reading's landmarks (server/schemas/readings.ts), and the spacing range
+  // of radiographs that film headers are held to (0.01–5 mm per pixel).
+  it.each([
+    [{ points: { 'L5.as': [1, 'x'] } }, /points\.L5\.as/],
+    [{ mmPerPixel: -1, points: {} }, /mmPerPixel/],
+    [{ mmPerPixel: 1e308, points: example1.points }, /mmPerPixel.*0\.01–5 mm/],
+    [{ mmPerPixel: [0.1, 1e308], points: example1.points }, /mmPerPixel.*0\.01–5 mm/],
+    [{ mmPerPixel: 0.001, points: example1.points }, /mmPerPixel.*0\.01–5 mm/],
+    [{ mmPerPixel: [0.1, 0.1, 0.1], points: example1.points }, /mmPerPixel/],
+    [{ mmPerPixel: '0.1', points: example1.points }, /mmPerPixel/],
+    [{ mmPerPixels: 0.1, points: example1.points }, /mmPerPixels/],
+    [{ mmPerPixel: 0.1 }, /points/],
+  ])('answers 400 validation_failed for %j, naming the field', async (body, message) => {
+    const res = await request(app)
+      .post('/api/measurements/compute')
+      .set('Cookie', users.fellow.cookie)
+      .send(body)
+    expect(res.status).toBe(400)
+    expect(res.body.error.code).toBe('validation_failed')
+    expect(res.body.error.message).toMatch(message)
+  })
+
+  it('refuses a spacing that JSON spells as a number too large for a double (1e400)', async () => {
+    const res = await request(app)
+      .post('/api/measurements/compute')
+      .set('Cookie', users.fellow.cookie)
+      .set('Content-Type', 'application/json')
+      .send(`{"mmPerPixel":1e400,"points":${JSON.stringify(example1.points)}}`)
+    expect(res.status).toBe(400)
+    expect(res.body.error.message).toMatch(/mmPerPixel/)
+  })
+
+  it('accepts [row, column] spacing and null for uncalibrated', async () => {
+    for (const mmPerPixel of [[0.1, 0.1], null]) {
+      const res = await request(app)
+        .post('/api/measurements/compute')
+        .set('Cookie', users.fellow.cookie)
+        .send({ ...example1, mmPerPixel })
+      expect(res.status).toBe(200)
+      expect(res.body.segments['L5-S1'].slipPercent).toBeCloseTo(10, 9)
+      expect(res.body.segments['L5-S1'].slipMm === null).toBe(mmPerPixel === null)
+    }
   })
 })

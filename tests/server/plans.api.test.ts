@@ -377,6 +377,58 @@ describe('plan checks from real readings', () => {
     expect(checkOf(segment, 'slip-grade-ii-or-more')?.flagged).toBeNull()
   })
 
+  it('shows where a planned disc replacement sits after surgery, lateral and frontal, from submitted readings only', async () => {
+    // Invented post-op films of one disc replacement at L4-L5: its marker at 46 % of the
+    // endplate depth on the lateral film; on the AP film 3.6 mm toward the image's right (the
+    // patient's left), tilted 2°.
+    const implant = { kind: 'disc-replacement' as const, segment: 'L4-L5' as const }
+    const lateral = await smallPhantomFiles({ implants: [{ ...implant, positionPercent: 46 }] })
+    const ap = await smallPhantomFiles({
+      view: 'ap',
+      seriesDescription: 'LUMBAR SPINE AP',
+      widthPx: 625,
+      heightPx: 750,
+      implants: [{ ...implant, lateralOffsetMm: 3.6, coronalTiltDeg: 2 }],
+    })
+    visitId = await insertTestVisit(db, patientId, users.fellow.id, '2026-04-02', 'post-op')
+    const construct: TemplateOptions = {
+      construct: [{ segment: 'L4-L5', implant: 'disc-replacement' }],
+    }
+    const lateralReading = await readAt(
+      lateral,
+      await uploadFilm(lateral),
+      'construct-check',
+      construct,
+    )
+    const apImage = await uploadPhantomFilm(app, users.fellow.cookie, visitId, ap, 'ap')
+    const centring = { discReplacements: ['L4-L5' as const] }
+    const frontalReading = await readAt(ap, apImage, 'implant-centring', centring)
+    // A later draft on the same film is never used.
+    await readAt(ap, apImage, 'implant-centring', centring, false)
+
+    const res = await putSegment('L4-L5', { treatment: 'disc-replacement' })
+    const position = segmentOf(res.body, 'L4-L5').implantPosition!
+    // Position along the endplate: 100·((marker − W.ps)·a)/|W.as − W.ps| (derived).
+    expect(position.lateralPositionPercent).toMatchObject({ readingId: lateralReading.id })
+    expect(position.lateralPositionPercent!.value).toBeCloseTo(46, 6)
+    expect(position.frontal).toMatchObject({
+      readingId: frontalReading.id,
+      template: 'implant-centring',
+      calibrationSource: 'dicom-pixel-spacing',
+    })
+    expect(position.frontal!.value.lateralOffsetMm).toBeCloseTo(3.6, 6)
+    expect(position.frontal!.value.implantTiltDeg).toBeCloseTo(2, 6)
+    // 3.6 mm is above the 3 mm threshold (McAfee et al. 2005, from memory, verify).
+    expect(position.frontal!.value).toMatchObject({
+      offCentre: true,
+      thresholdMm: 3,
+      imageRightSide: 'patient-left',
+    })
+    expect(position.frontalSource).toBe(SOURCES.frontalOffset)
+    // Other treatments carry no implant position.
+    expect(segmentOf(res.body, 'L3-L4').implantPosition).toBeNull()
+  })
+
   it("gives the fused plan's expected lordosis and the PI target as hand arithmetic predicts", async () => {
     const imageId = await uploadFilm(slipFilm)
     const { id, points } = await readAt(slipFilm, imageId, 'lumbar-alignment', {})

@@ -36,6 +36,8 @@ let visitId: number
 let neutral: Phantom
 let flexion: Phantom
 let extension: Phantom
+let constructed: Phantom
+let frontal: Phantom
 
 const PATIENT = {
   recordNumber: 'TST-RDG-1',
@@ -61,6 +63,12 @@ const MM_PER_PIXEL = 0.6 / 1.15
 const L4_L5 = ['L4.as', 'L4.ps', 'L4.pi', 'L4.ai', 'L5.as', 'L5.ps', 'L5.pi', 'L5.ai']
 const pick = (film: Phantom, names: string[]): Points =>
   Object.fromEntries(names.map((name) => [name, film.film.landmarks.points[name] as PixelPoint]))
+/** Every landmark a construct check asks for, at the phantom's exact positions. */
+const constructPoints = (film: Phantom, options: TemplateOptions): Points =>
+  pick(
+    film,
+    templateLandmarks('construct-check', options).map((spec) => spec.name),
+  )
 
 /**
  * Taillard slip by hand (Butt & Saifuddin 2005, Clin Radiol 60:533): d = (U.pi − W.ps)·a with
@@ -82,6 +90,27 @@ beforeAll(async () => {
   uploadDir = mkdtempSync(join(tmpdir(), 'endplate-readings-'))
   ;({ app, config } = buildTestApp(db, { UPLOAD_DIR: uploadDir }))
   neutral = await smallPhantomFiles(NEUTRAL)
+  // A frontal film after surgery: invented disc replacements 2.6 mm toward the image's right
+  // (the patient's left, Patient Orientation L\F) at L4-L5, 1 mm the other way at L3-L4.
+  frontal = await smallPhantomFiles({
+    ...HEADER,
+    view: 'ap',
+    seriesDescription: 'LUMBAR SPINE AP',
+    widthPx: 625,
+    heightPx: 750,
+    implants: [
+      { kind: 'disc-replacement', segment: 'L4-L5', lateralOffsetMm: 2.6, coronalTiltDeg: 4 },
+      { kind: 'disc-replacement', segment: 'L3-L4', lateralOffsetMm: -1 },
+    ],
+  })
+  // The same spine after surgery: invented cages at L3-L4 and L4-L5.
+  constructed = await smallPhantomFiles({
+    ...NEUTRAL,
+    implants: [
+      { kind: 'cage', segment: 'L3-L4' },
+      { kind: 'cage', segment: 'L4-L5' },
+    ],
+  })
   // Invented motion: 12° range and 8 % translation at L4-L5 between flexion and extension.
   const pair = flexionExtensionPair(
     { widthPx: 750, heightPx: 625, detectorPixelMm: 0.6, ...NEUTRAL },
@@ -384,14 +413,15 @@ describe('POST /api/readings/:id/submit', () => {
     ).toHaveLength(1)
   })
 
-  it('refuses to submit a reading with none of its landmarks placed', async () => {
+  it('refuses to submit a reading with a required landmark missing, naming it', async () => {
     const imageId = await uploadFilm(neutral, 'lateral-neutral')
     const created = (
       await post(users.fellow, imageId, { template: 'slip-grade', options: { segment: 'L4-L5' } })
     ).body
     const res = await submit(users.fellow, created.id, 1)
     expect(res.status).toBe(400)
-    expect(res.body.error.message).toMatch(/at least one landmark/)
+    expect(res.body.error.message).toMatch(/^Place 8 required landmarks before submitting: L4 /)
+    expect(Object.keys(res.body.error.details)).toContain('points.L5.ai')
     expect((await db(TABLES.readings).where({ id: created.id }).first()).status).toBe('draft')
   })
 
@@ -491,17 +521,17 @@ describe('construct checks', () => {
 
   it('measures subsidence against the first submitted post-op reading, not against drafts', async () => {
     const postOpImage = await uploadFilm(
-      neutral,
+      constructed,
       'lateral-neutral',
       await visitOf('post-op', '2026-03-10'),
     )
     const followUpImage = await uploadFilm(
-      neutral,
+      constructed,
       'lateral-neutral',
       await visitOf('follow-up', '2026-09-10'),
     )
-    const construct = { construct: [{ segment: 'L4-L5', implant: 'cage' }] }
-    const baselinePoints = pick(neutral, L4_L5)
+    const construct: TemplateOptions = { construct: [{ segment: 'L4-L5', implant: 'cage' }] }
+    const baselinePoints = constructPoints(constructed, construct)
     const baseline = (
       await post(users.fellow, postOpImage, {
         template: 'construct-check',
@@ -546,12 +576,12 @@ describe('construct checks', () => {
 
   it('does not measure a second rater on the same post-op film as subsidence', async () => {
     const postOpImage = await uploadFilm(
-      neutral,
+      constructed,
       'lateral-neutral',
       await visitOf('post-op', '2026-03-10'),
     )
-    const construct = { construct: [{ segment: 'L4-L5', implant: 'cage' }] }
-    const points = pick(neutral, L4_L5)
+    const construct: TemplateOptions = { construct: [{ segment: 'L4-L5', implant: 'cage' }] }
+    const points = constructPoints(constructed, construct)
     const first = (
       await post(users.fellow, postOpImage, {
         template: 'construct-check',
@@ -574,31 +604,30 @@ describe('construct checks', () => {
 
   it("takes each treated segment's baseline from the earliest reading that measured it", async () => {
     const firstOp = await uploadFilm(
-      neutral,
+      constructed,
       'lateral-neutral',
       await visitOf('post-op', '2026-03-10'),
     )
     const secondOp = await uploadFilm(
-      neutral,
+      constructed,
       'lateral-neutral',
       await visitOf('post-op', '2026-06-10'),
     )
     const followUp = await uploadFilm(
-      neutral,
+      constructed,
       'lateral-neutral',
       await visitOf('follow-up', '2026-09-10'),
     )
-    const l3l4 = templateLandmarks('construct-check', {
+    const l3l4Points = constructPoints(constructed, {
       construct: [{ segment: 'L3-L4', implant: 'cage' }],
-    }).map((spec) => spec.name)
-    const l3l4Points = Object.fromEntries(
-      Object.entries(neutral.film.landmarks.points).filter(([name]) => l3l4.includes(name)),
-    ) as Points
+    })
     const early = (
       await post(users.fellow, firstOp, {
         template: 'construct-check',
         options: { construct: [{ segment: 'L4-L5', implant: 'cage' }] },
-        points: pick(neutral, L4_L5),
+        points: constructPoints(constructed, {
+          construct: [{ segment: 'L4-L5', implant: 'cage' }],
+        }),
       })
     ).body
     await submit(users.fellow, early.id, 1)
@@ -617,10 +646,7 @@ describe('construct checks', () => {
         { segment: 'L4-L5', implant: 'cage' },
       ],
     }
-    const bothNames = templateLandmarks('construct-check', both).map((spec) => spec.name)
-    const bothPoints = Object.fromEntries(
-      Object.entries(neutral.film.landmarks.points).filter(([name]) => bothNames.includes(name)),
-    ) as Points
+    const bothPoints = constructPoints(constructed, both)
     const res = await post(users.fellow, followUp, {
       template: 'construct-check',
       options: both,
@@ -644,6 +670,94 @@ describe('construct checks', () => {
     })
     expect(res.status).toBe(400)
     expect(res.body.error.message).toMatch(/pre-op visit/)
+    expect(await readingCount()).toBe(0)
+  })
+})
+
+describe('implant centring on a frontal film', () => {
+  const options: TemplateOptions = { discReplacements: ['L3-L4', 'L4-L5'] }
+  const centringPoints = (film: Phantom): Points =>
+    pick(
+      film,
+      templateLandmarks('implant-centring', options).map((spec) => spec.name),
+    )
+
+  it('measures each disc replacement from the ground truth and names the side from the file', async () => {
+    const visit = await insertTestVisit(db, patientId, users.fellow.id, '2026-03-10', 'post-op')
+    const imageId = await uploadFilm(frontal, 'ap', visit)
+    const res = await post(users.fellow, imageId, {
+      template: 'implant-centring',
+      options,
+      points: centringPoints(frontal),
+    })
+    expect(res.status).toBe(201)
+    const measured = res.body.results.measurements.frontal
+    // The phantom was drawn with these offsets and tilt along the mean endplate direction.
+    expect(measured['L4-L5'].lateralOffsetMm).toBeCloseTo(2.6, 6)
+    expect(measured['L4-L5'].implantTiltDeg).toBeCloseTo(4, 6)
+    expect(measured['L3-L4'].lateralOffsetMm).toBeCloseTo(-1, 6)
+    // Both offsets are within 3 mm (McAfee et al. 2005, from memory, verify): not flagged.
+    expect(res.body.results.centring).toMatchObject({
+      thresholdMm: 3,
+      imageRightSide: 'patient-left',
+      segments: { 'L3-L4': { offCentre: false }, 'L4-L5': { offCentre: false } },
+    })
+    // Intervals come from the same propagation as the lateral measures.
+    const interval = res.body.results.uncertainty.measurements.frontal['L4-L5'].lateralOffsetMm
+    expect(interval.standardDeviation).toBeGreaterThan(0)
+    expect((await submit(users.fellow, res.body.id, 1)).status).toBe(200)
+    const image = await request(app)
+      .get(`/api/images/${imageId}`)
+      .set('Cookie', users.fellow.cookie)
+    expect(image.body.dicom.patientOrientation).toEqual(['L', 'F'])
+  })
+
+  it('submits without the optional spinous processes, not without an implant end', async () => {
+    const visit = await insertTestVisit(db, patientId, users.fellow.id, '2026-03-10', 'post-op')
+    const imageId = await uploadFilm(frontal, 'ap', visit)
+    const { 'L3.sp': _a, 'L4.sp': _b, ...withoutSpinous } = centringPoints(frontal)
+    const { 'tdr.L4-L5.r': _c, ...withoutEnd } = withoutSpinous
+    const incomplete = await post(users.fellow, imageId, {
+      template: 'implant-centring',
+      options,
+      points: withoutEnd,
+    })
+    const refused = await submit(users.fellow, incomplete.body.id, 1)
+    expect(refused.status).toBe(400)
+    expect(refused.body.error.message).toBe(
+      'Place 1 required landmark before submitting: Disc replacement L4-L5, image-right end.',
+    )
+    const complete = await post(users.fellow, imageId, {
+      template: 'implant-centring',
+      options,
+      points: withoutSpinous,
+    })
+    expect(complete.body.results.measurements.frontal['L4-L5'].rotationPercent).toBeNull()
+    expect((await submit(users.fellow, complete.body.id, 1)).status).toBe(200)
+  })
+
+  it('refuses implant centring on a lateral or pre-op film, and a lateral template on an AP film', async () => {
+    const postOp = await insertTestVisit(db, patientId, users.fellow.id, '2026-03-10', 'post-op')
+    const preOp = await insertTestVisit(db, patientId, users.fellow.id, '2026-02-10', 'pre-op')
+    const lateralId = await uploadFilm(neutral, 'lateral-neutral', postOp)
+    const apId = await uploadFilm(frontal, 'ap', postOp)
+    const apPreOp = await uploadFilm(frontal, 'ap', preOp)
+    const cases: Array<[number, object, RegExp]> = [
+      [lateralId, { template: 'implant-centring', options }, /frontal \(AP\) film/],
+      [apPreOp, { template: 'implant-centring', options }, /after surgery/],
+      [apId, { template: 'slip-grade', options: { segment: 'L4-L5' } }, /reads a lateral film/],
+      [apId, { template: 'implant-centring', options: {} }, /discReplacements/],
+      [
+        apId,
+        { template: 'implant-centring', options: { discReplacements: ['L4-L5', 'L4-L5'] } },
+        /twice/,
+      ],
+    ]
+    for (const [imageId, body, message] of cases) {
+      const res = await post(users.fellow, imageId, body)
+      expect(res.status).toBe(400)
+      expect(res.body.error.message).toMatch(message)
+    }
     expect(await readingCount()).toBe(0)
   })
 })

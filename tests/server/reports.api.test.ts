@@ -10,6 +10,9 @@ import { TABLES } from '../../server/db/tables'
 import { findReading, signSubmittedReading } from '../../server/db/readings'
 import { insertVisit } from '../../server/db/visits'
 import type { PhantomParamsInput } from '../../server/phantom/phantom-params'
+import { phantomPreset } from '../../server/phantom/presets'
+import { templateLandmarks } from '../../shared/readings/templates'
+import type { PixelPoint } from '../../shared/types/landmarks'
 import { computeMeasurements } from '../../shared/measurement'
 import { REPORT_CAUTIONS } from '../../shared/reports/cautions'
 import type { Role, VisitKind } from '../../shared/types/domain'
@@ -288,5 +291,42 @@ describe('GET /api/visits/:id/report.pdf', () => {
     ).body as VisitReport
     expect(first.comparisons).toEqual([])
     expect(first.stamp).toBe('NOT ALL READINGS SIGNED')
+  })
+
+  it('reports a frontal implant-centring reading with its frontal overlays and results', async () => {
+    // The demo's invented hybrid construct on its post-op AP film (server/phantom presets).
+    const ap = await smallPhantomFiles({
+      ...phantomPreset('hybrid-post-op-ap'),
+      widthPx: 640,
+      heightPx: 800,
+    })
+    const upload = await request(app)
+      .post(`/api/visits/${visits['post-op']}/images`)
+      .set('Cookie', users.fellow.cookie)
+      .field('view', 'ap')
+      .field('confirmPatientMismatch', 'true')
+      .attach('file', ap.dicom, 'ap.dcm')
+    expect(upload.status).toBe(201)
+    const options = { discReplacements: ['L3-L4', 'L4-L5'] }
+    const truth = ap.film.landmarks.points as Record<string, PixelPoint>
+    const points = Object.fromEntries(
+      templateLandmarks('implant-centring', options as never)
+        .filter((spec) => truth[spec.name])
+        .map((spec) => [spec.name, truth[spec.name]]),
+    )
+    const created = await request(app)
+      .post(`/api/images/${upload.body[0].id}/readings`)
+      .set('Cookie', users.fellow.cookie)
+      .send({ template: 'implant-centring', options, points })
+    expect(created.status).toBe(201)
+    const res = await pdf(`/api/readings/${created.body.id}/report.pdf`)
+    expect(res.status).toBe(200)
+    writeFileSync(screenshotPath('report-frontal').replace(/\.png$/, '.pdf'), res.body as Buffer)
+    const text = (await pdfPageTexts(res.body as Buffer)).join('\n')
+    expect(text).toContain('Implant centring (AP)')
+    // The overlay labels carry the engine's offsets (shared/overlays frontal builder).
+    expect(text).toMatch(/L3-L4 offset \d+\.\d mm (to image (left|right)|centred)/)
+    expect(text).toMatch(/L4-L5 offset \d+\.\d mm (to image (left|right)|centred)/)
+    expect(text).toContain('Offset from midline')
   })
 })

@@ -25,10 +25,13 @@ interface Ids {
   visitId: number
   imageId: number
   readingId: number
+  studyId: number
+  researcherId: number
   patientVersion: () => Promise<number>
   visitVersion: () => Promise<number>
   readingVersion: () => Promise<number>
   imageVersion: () => Promise<number>
+  studyVersion: () => Promise<number>
 }
 
 let n = 0
@@ -45,6 +48,17 @@ const newPatient = () => {
 
 // Expected status for each role on every API route (product roles: admin manages users, audit and
 // settings only; surgeon and fellow work with identified patients; researcher sees de-identified data).
+/** A complete L5-S1 slip-grade set on the 100 × 100 px matrix film: a plain upright box. */
+const SLIP_GRADE_L5_S1 = {
+  'L5.as': [70, 20],
+  'L5.ps': [30, 20],
+  'L5.pi': [30, 50],
+  'L5.ai': [70, 50],
+  'S1.as': [70, 60],
+  'S1.ps': [30, 60],
+  'S1.pw': [28, 90],
+}
+
 const ROUTES: RouteCase[] = [
   {
     method: 'get',
@@ -125,7 +139,7 @@ const ROUTES: RouteCase[] = [
   {
     method: 'patch',
     path: (ids) => `/api/readings/${ids.readingId}`,
-    body: () => ({ points: { 'L5.as': [10, 10] } }),
+    body: () => ({ points: SLIP_GRADE_L5_S1 }),
     version: (ids) => ids.readingVersion(),
     expect: { anonymous: 401, admin: 403, surgeon: 403, fellow: 200, researcher: 403 },
   },
@@ -197,12 +211,87 @@ const ROUTES: RouteCase[] = [
     path: (ids) => `/api/images/${ids.imageId}`,
     expect: { anonymous: 401, admin: 403, surgeon: 409, fellow: 409, researcher: 403 },
   },
+  // The fixture film is a PNG without files: every role that may read it gets 409 (not DICOM).
+  {
+    method: 'get',
+    path: (ids) => `/api/images/${ids.imageId}/dicom`,
+    expect: { anonymous: 401, admin: 403, surgeon: 409, fellow: 409, researcher: 409 },
+  },
   {
     method: 'post',
     path: () => '/api/measurements/compute',
     body: () => ({ points: {} }),
     expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 200, researcher: 200 },
   },
+  // Studies: surgeons and administrators manage them; researchers read the studies they belong to.
+  {
+    method: 'get',
+    path: () => '/api/studies',
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 200 },
+  },
+  {
+    method: 'post',
+    path: () => '/api/studies',
+    body: (_ids, count) => ({ name: `Matrix cohort ${count}-${Math.random()}` }),
+    expect: { anonymous: 401, admin: 201, surgeon: 201, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: () => '/api/studies/patient-candidates',
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: () => '/api/studies/member-candidates',
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: (ids) => `/api/studies/${ids.studyId}`,
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 200 },
+  },
+  {
+    method: 'patch',
+    path: (ids) => `/api/studies/${ids.studyId}`,
+    body: () => ({ note: 'matrix' }),
+    version: (ids) => ids.studyVersion(),
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: (ids) => `/api/studies/${ids.studyId}/patients`,
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 200 },
+  },
+  {
+    method: 'put',
+    path: (ids) => `/api/studies/${ids.studyId}/patients`,
+    body: (ids) => ({ patientIds: [ids.patientId] }),
+    version: (ids) => ids.studyVersion(),
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: (ids) => `/api/studies/${ids.studyId}/members`,
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 200 },
+  },
+  {
+    method: 'put',
+    path: (ids) => `/api/studies/${ids.studyId}/members`,
+    body: (ids) => ({ userIds: [ids.researcherId] }),
+    version: (ids) => ids.studyVersion(),
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 403 },
+  },
+  // Measurement exports: de-identified for researchers; clinicians' fellows and admins get none.
+  ...[
+    '/api/exports/measurements.csv',
+    '/api/exports/measurements.xlsx',
+    '/api/exports/measurements/count',
+    '/api/exports/data-dictionary.csv',
+  ].map((path): RouteCase => ({
+    method: 'get',
+    path: () => path,
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 403, researcher: 200 },
+  })),
   {
     method: 'get',
     path: () => '/api/users',
@@ -238,7 +327,7 @@ beforeEach(async () => {
   users = await createUsersForEveryRole(db, config)
   const patientId = await insertTestPatient(db, users.fellow.id)
   const visitId = await insertTestVisit(db, patientId, users.fellow.id)
-  await insertStudyWith(db, users.researcher.id, [patientId])
+  const studyId = await insertStudyWith(db, users.researcher.id, [patientId])
   // A film row without files (the reading routes never open the image) and a draft by the fellow.
   const imageId = await insertImage(db, {
     visitId,
@@ -268,7 +357,8 @@ beforeEach(async () => {
   const reading = await request(app)
     .post(`/api/images/${imageId}/readings`)
     .set('Cookie', users.fellow.cookie)
-    .send({ template: 'slip-grade', options: { segment: 'L5-S1' }, points: { 'S1.ps': [40, 60] } })
+    // Every landmark of the template, so that the rater may submit it.
+    .send({ template: 'slip-grade', options: { segment: 'L5-S1' }, points: SLIP_GRADE_L5_S1 })
   if (reading.status !== 201)
     throw new Error(`could not start the matrix reading: ${JSON.stringify(reading.body)}`)
   const readingId = reading.body.id as number
@@ -277,16 +367,19 @@ beforeEach(async () => {
     visitId,
     imageId,
     readingId,
+    studyId,
+    researcherId: users.researcher.id,
     patientVersion: async () => (await db('patients').where({ id: patientId }).first()).version,
     visitVersion: async () => (await db('visits').where({ id: visitId }).first()).version,
     readingVersion: async () => (await db('readings').where({ id: readingId }).first()).version,
     imageVersion: async () => (await db('images').where({ id: imageId }).first()).version,
+    studyVersion: async () => (await db('studies').where({ id: studyId }).first()).version,
   }
 })
 
 describe('role × route matrix', () => {
   for (const route of ROUTES) {
-    it(`${route.method.toUpperCase()} ${route.path({ patientId: 1, visitId: 1, imageId: 1, readingId: 1 } as Ids).replace(/\/1(\/|$)/g, '/:id$1')} answers each role as designed`, async () => {
+    it(`${route.method.toUpperCase()} ${route.path({ patientId: 1, visitId: 1, imageId: 1, readingId: 1, studyId: 1 } as Ids).replace(/\/1(\/|$)/g, '/:id$1')} answers each role as designed`, async () => {
       const seen: Record<string, number> = {}
       for (const who of Object.keys(route.expect) as Who[]) {
         let body = route.body?.(ids, n)

@@ -15,11 +15,12 @@ export async function uploadPhantomFilm(
   cookie: string,
   visitId: number,
   film: Phantom,
+  view = 'lateral-neutral',
 ): Promise<number> {
   const res = await request(app)
     .post(`/api/visits/${visitId}/images`)
     .set('Cookie', cookie)
-    .field('view', 'lateral-neutral')
+    .field('view', view)
     .field('confirmPatientMismatch', 'true')
     .attach('file', film.dicom, 'neutral.dcm')
   expect(res.status).toBe(201)

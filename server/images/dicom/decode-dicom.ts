@@ -3,6 +3,7 @@ import { ImageError, MAX_FILM_PIXELS, tooManyPixels } from '../image-error'
 import { decompressFrame } from './codecs'
 import { readDicomHeader, type DicomHeader, type PixelModule } from './dicom-header'
 import { encapsulatedFrameBytes, nativeFrameBytes } from './frame-bytes'
+import { checkFrameHeader } from './frame-header'
 import { parseDicomDataset } from './parse-dicom-dataset'
 import { applyPixelValueMapping, buildPixelValueMapping } from './pixel-value-lut'
 import { pixelEncodingOf, type PixelEncoding } from './transfer-syntax'
@@ -65,7 +66,9 @@ async function readFrameSamples(
     const samples = nativeSamples(nativeFrameBytes(dataSet, pixel), pixel.bitsAllocated)
     return { samples, wordBits: pixel.bitsAllocated === 8 ? 8 : 16, native: true }
   }
-  const frame = await decompressFrame(encoding, encapsulatedFrameBytes(dataSet, pixel))
+  const codestream = encapsulatedFrameBytes(dataSet, pixel)
+  checkFrameHeader(encoding, codestream, pixel)
+  const frame = await decompressFrame(encoding, codestream)
   if (frame.width !== pixel.columns || frame.height !== pixel.rows || frame.components !== 1) {
     throw new ImageError(
       'corrupt-dicom',

@@ -44,6 +44,11 @@ export interface DicomHeader {
   acquisitionDate: string | null
   view: FilmView | null
   viewHints: ViewHints
+  /**
+   * Patient Orientation (0020,0020): the patient directions of the rows (toward the image's
+   * right edge) and of the columns (downward), e.g. ["L", "F"]; null when absent or malformed.
+   */
+  patientOrientation: [row: string, column: string] | null
   pixel: PixelModule
   /** Modality LUT as Rescale Slope (0028,1053) and Intercept (0028,1052). */
   rescale: { slope: number; intercept: number }
@@ -51,6 +56,17 @@ export interface DicomHeader {
   windows: HeaderWindow[]
   voiLutFunction: VoiLutFunction
   spacing: FilmSpacing
+}
+
+/** Two CS values of A, P, R, L, H and F letters (PS3.3 C.7.6.1.1.1); anything else is null. */
+function readPatientOrientation(dataSet: DataSet): DicomHeader['patientOrientation'] {
+  const values = (readText(dataSet, 'x00200020') ?? '').split('\\').map((v) => v.trim())
+  const [row, column] = values
+  const valid = (value: string | undefined): value is string =>
+    value !== undefined && /^[APRLHF]{1,3}$/.test(value.toUpperCase())
+  return values.length === 2 && valid(row) && valid(column)
+    ? [row.toUpperCase(), column.toUpperCase()]
+    : null
 }
 
 function readPatientName(dataSet: DataSet): DicomHeader['patient']['name'] {
@@ -148,6 +164,7 @@ export function readDicomHeader(dataSet: DataSet): DicomHeader {
     acquisitionDate: readAcquisitionDate(dataSet),
     view: viewFromHints(viewHints),
     viewHints,
+    patientOrientation: readPatientOrientation(dataSet),
     pixel: readPixelModule(dataSet),
     // A zero slope would collapse the image to one value; treat it as absent.
     rescale: {

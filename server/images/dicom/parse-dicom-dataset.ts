@@ -1,15 +1,28 @@
 import { inflateRawSync } from 'node:zlib'
 import dicomParser, { type DataSet } from 'dicom-parser'
-import { ImageError } from '../image-error'
+import { ImageError, MAX_FILM_PIXELS } from '../image-error'
+
+/**
+ * The most a deflated dataset may inflate to: the pixels of the largest film Endplate accepts
+ * (MAX_FILM_PIXELS at 16 bits) plus room for the attributes around them, which are small.
+ * A few megabytes of deflate can otherwise stand for gigabytes.
+ */
+export const MAX_INFLATED_BYTES = MAX_FILM_PIXELS * 2 + 16 * 2 ** 20
 
 // Deflated Explicit VR Little Endian (PS3.5 §A.5) deflates everything after the meta header.
 // dicom-parser hands us the bytes and the offset where the deflated stream starts and expects
-// the whole file back, inflated.
+// the whole file back, inflated. zlib stops at maxOutputLength instead of growing further.
 function inflateDataset(bytes: Uint8Array, position: number): Uint8Array {
   let inflated: Buffer
   try {
-    inflated = inflateRawSync(bytes.subarray(position))
+    inflated = inflateRawSync(bytes.subarray(position), { maxOutputLength: MAX_INFLATED_BYTES })
   } catch (error) {
+    if ((error as NodeJS.ErrnoException).code === 'ERR_BUFFER_TOO_LARGE') {
+      throw new ImageError(
+        'corrupt-dicom',
+        `The deflated DICOM dataset inflates to more than ${Math.round(MAX_INFLATED_BYTES / 2 ** 20)} MB, more than a film of at most ${MAX_FILM_PIXELS / 1e6} million pixels can hold.`,
+      )
+    }
     throw new ImageError(
       'corrupt-dicom',
       `The deflated DICOM dataset cannot be inflated: ${String(error)}`,

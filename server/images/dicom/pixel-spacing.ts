@@ -50,7 +50,7 @@ function samePair(a: [number, number], b: [number, number]): boolean {
  * Pixel Spacing equal to Imager Pixel Spacing without a calibration type only restates the
  * detector plane (PS3.3 §10.7.1.1), so it falls through to 2 or 3.
  */
-export function pickFilmSpacing(attributes: SpacingAttributes): FilmSpacing {
+function spacingByTrust(attributes: SpacingAttributes): FilmSpacing {
   const pixel = asPair(attributes.pixelSpacing)
   const imager = asPair(attributes.imagerPixelSpacing)
   const calibration = attributes.calibrationType
@@ -95,5 +95,38 @@ export function pickFilmSpacing(attributes: SpacingAttributes): FilmSpacing {
     mmPerPixel: null,
     spacingSource: 'none',
     note: 'No usable spacing in the header: angles and percentages only until the film is calibrated.',
+  }
+}
+
+/**
+ * The spacings, in mm per pixel, that a radiograph can have: detector pitches are about
+ * 0.05–0.2 mm and lumbar magnification 1.05–1.40 (common practice), so 0.01–5 mm leaves wide
+ * room on both sides and still refuses a damaged header's 1e308 or 1e-308.
+ */
+export const PLAUSIBLE_SPACING_MM = { min: 0.01, max: 5 } as const
+
+export function isPlausibleSpacingMm(mm: number): boolean {
+  return mm >= PLAUSIBLE_SPACING_MM.min && mm <= PLAUSIBLE_SPACING_MM.max
+}
+
+function formatMm(mm: number): string {
+  return Number.isFinite(mm) && mm >= 1e-3 && mm < 1e4
+    ? String(+mm.toPrecision(4))
+    : mm.toExponential(2)
+}
+
+/**
+ * `spacingByTrust`, then refuses a spacing outside `PLAUSIBLE_SPACING_MM`: such a film is
+ * uncalibrated (angles and percentages only) and its note says why, with the range.
+ */
+export function pickFilmSpacing(attributes: SpacingAttributes): FilmSpacing {
+  const chosen = spacingByTrust(attributes)
+  const pair = chosen.mmPerPixel
+  if (pair === null || (isPlausibleSpacingMm(pair[0]) && isPlausibleSpacingMm(pair[1])))
+    return chosen
+  return {
+    mmPerPixel: null,
+    spacingSource: 'none',
+    note: `The header's spacing (${formatMm(pair[0])} × ${formatMm(pair[1])} mm per pixel) lies outside the ${PLAUSIBLE_SPACING_MM.min}–${PLAUSIBLE_SPACING_MM.max} mm of radiographs, so it is not used: calibrate on a marker of known size.`,
   }
 }

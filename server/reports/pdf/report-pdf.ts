@@ -97,10 +97,23 @@ function drawReading(
   films: ReadonlyMap<number, ComposedFilm>,
 ): void {
   const y = ensureSpace(doc, 40)
-  doc.y =
-    y +
-    writeText(doc, reading.title, PAGE.left, y, { size: 11, weight: 600, width: CONTENT_WIDTH }) +
-    6
+  const titleWidth = CONTENT_WIDTH - (reading.stamp ? 120 : 0)
+  const titleHeight = writeText(doc, reading.title, PAGE.left, y, {
+    size: 11,
+    weight: 600,
+    width: titleWidth,
+  })
+  if (reading.stamp) {
+    // The reading's own state beside its title (a visit report may mix signed and unsigned).
+    writeText(doc, reading.stamp, PAGE.left, y + 2, {
+      size: 8,
+      weight: 600,
+      color: COLOURS.stamp,
+      width: CONTENT_WIDTH,
+      align: 'right',
+    })
+  }
+  doc.y = y + titleHeight + 6
   for (const film of reading.films) {
     const composed = films.get(film.imageId)
     if (composed) drawFilm(doc, film, composed)

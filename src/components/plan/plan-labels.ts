@@ -1,6 +1,11 @@
 import type { PlannedTreatment, ReadingStatus } from '@shared/types/domain'
 import type { PiLlBand, PlanCheckFlag, PlanCheckId } from '@shared/types/measurement'
-import type { MeasureSource } from '@shared/types/plans'
+import type {
+  FrontalImplantPosition,
+  ImplantPositionEvidence,
+  MeasureSource,
+} from '@shared/types/plans'
+import { frontalSideWords } from '@shared/measurement/implant-centring'
 import { TEMPLATE_LABELS } from '@shared/readings/templates'
 import { SPACING_SOURCE_SHORT, VISIT_KIND_LABELS } from '@/utils/format'
 
@@ -66,4 +71,28 @@ export function formatNumber(value: number | null | undefined, digits = 1): stri
 export function formatWithUnit(value: number | null | undefined, unit: '°' | ' mm' | ' %'): string {
   const text = formatNumber(value)
   return text === '—' ? text : `${text}${unit}`
+}
+
+/** "2.6 mm toward patient left (5.3 % of the endplate width)", or with "image right" when the film does not say. */
+export function frontalOffsetText(position: FrontalImplantPosition): string {
+  const { lateralOffsetMm: mm, lateralOffsetPercent: percent } = position
+  const signed = percent ?? mm
+  if (signed === null) return '—'
+  const side = frontalSideWords(position.imageRightSide, signed > 0 ? 'r' : 'l')
+  const percentText = percent === null ? '' : `${formatNumber(Math.abs(percent))} % of the width`
+  if (Number(formatNumber(Math.abs(signed))) === 0) return `centred (${percentText || '0.0 mm'})`
+  if (mm === null) return `${percentText} toward ${side} (no mm: uncalibrated)`
+  return `${formatNumber(Math.abs(mm))} mm toward ${side} (${percentText})`
+}
+
+/** "Implant 46.0 % from posterior (−1.5 mm)", the lateral film's position of the marker. */
+export function lateralPositionText(evidence: ImplantPositionEvidence): string {
+  const percent = evidence.lateralPositionPercent?.value
+  if (percent === undefined || percent === null) return '—'
+  const mm = evidence.lateralOffsetMm?.value
+  const offset =
+    mm === undefined || mm === null
+      ? ''
+      : ` (${mm < 0 ? '−' : '+'}${formatNumber(Math.abs(mm))} mm from the middle)`
+  return `${formatNumber(percent)} % of depth from posterior${offset}`
 }

@@ -44,6 +44,34 @@ describe('npm run measure', () => {
       expect(result.segments['L5-S1'].discHeightMm).toBeNull()
     },
   )
+  it(
+    'prints the frontal block: the seven keys per measured segment, {} for a lateral film',
+    { timeout: 30_000 },
+    () => {
+      const result = JSON.parse(measure(fixture('frontal-two-levels.json')).stdout)
+      expect(Object.keys(result.frontal)).toEqual(['L3-L4', 'L4-L5'])
+      for (const segment of Object.values(result.frontal)) {
+        expect(Object.keys(segment as object)).toEqual([
+          'endplateWidthMm',
+          'lateralOffsetMm',
+          'lateralOffsetPx',
+          'lateralOffsetPercent',
+          'implantTiltDeg',
+          'segmentCoronalAngleDeg',
+          'rotationPercent',
+        ])
+      }
+      // L4-L5 by hand: m = (200, 450), q = (210, 450): 10 px = 2 mm at 0.2 mm/px, of a
+      // 200 px = 40 mm endplate 5 %; spinous process (230 − 200)/100 = 30 %.
+      expect(result.frontal['L4-L5'].lateralOffsetMm).toBeCloseTo(2, 12)
+      expect(result.frontal['L4-L5'].lateralOffsetPercent).toBeCloseTo(5, 12)
+      expect(result.frontal['L4-L5'].rotationPercent).toBeCloseTo(30, 12)
+      // L3-L4 has no spinous process point, and a centred implant.
+      expect(result.frontal['L3-L4'].rotationPercent).toBeNull()
+      expect(result.frontal['L3-L4'].lateralOffsetPx).toBeCloseTo(0, 12)
+      expect(JSON.parse(measure(fixture('lumbar-alignment.json')).stdout).frontal).toEqual({})
+    },
+  )
   it('adds intervals with --uncertainty', { timeout: 30_000 }, () => {
     const result = JSON.parse(
       measure(fixture('lumbar-alignment.json'), '--uncertainty', '--sigma-mm=0.5').stdout,

@@ -31,14 +31,22 @@ describe('parseLandmarkDocument accepts', () => {
       0.1, 0.2,
     ])
   })
-  it('every documented name: corners, sacrum, heads, rims, cages and markers of every segment', () => {
+  it('every documented name: corners, sacrum, heads, rims, cages, markers and frontal points', () => {
     expect(KNOWN_LANDMARK_NAMES.has('L3.pi')).toBe(true)
     expect(KNOWN_LANDMARK_NAMES.has('S1.pw')).toBe(true)
     expect(KNOWN_LANDMARK_NAMES.has('FH2.rim3')).toBe(true)
     expect(KNOWN_LANDMARK_NAMES.has('cage.L1-L2.inf.a')).toBe(true)
     expect(KNOWN_LANDMARK_NAMES.has('implant.L5-S1.marker')).toBe(true)
-    // 5·4 corners + 3 sacrum + 2·(1 + 3) heads + 5·(4 + 1) implants.
-    expect(KNOWN_LANDMARK_NAMES.size).toBe(20 + 3 + 8 + 25)
+    expect(KNOWN_LANDMARK_NAMES.has('L1.il')).toBe(true)
+    expect(KNOWN_LANDMARK_NAMES.has('S1.sr')).toBe(true)
+    expect(KNOWN_LANDMARK_NAMES.has('L5.sp')).toBe(true)
+    expect(KNOWN_LANDMARK_NAMES.has('tdr.L3-L4.r')).toBe(true)
+    // L1 is never the lower vertebra of a segment, S1 never the upper one.
+    expect(KNOWN_LANDMARK_NAMES.has('L1.sl')).toBe(false)
+    expect(KNOWN_LANDMARK_NAMES.has('S1.il')).toBe(false)
+    // 5·4 corners + 3 sacrum + 2·(1 + 3) heads + 5·(4 + 1) implants, and on the frontal film
+    // 5 upper vertebrae·(il, ir, sp) + 5 lower·(sl, sr) + 5 implants·(l, r).
+    expect(KNOWN_LANDMARK_NAMES.size).toBe(20 + 3 + 8 + 25 + 15 + 10 + 10)
   })
   it('a femoral head fitted from three rim points, giving the same PT as the centre itself', () => {
     // Rim points on the circle of radius 180 px about H = (1260, 1775) (Example 7's hip).

@@ -143,4 +143,16 @@ describe('DICOM written by dcmjs, read by dicom-parser', () => {
     expect(await view({ ViewPosition: 'AP' })).toBe('ap')
     expect(await view({ SeriesDescription: 'PELVIS' })).toBeNull()
   })
+
+  it('keeps Patient Orientation (0020,0020) as row and column directions (PS3.3 C.7.6.1.1.1)', async () => {
+    const orientation = async (attributes: Record<string, unknown>) =>
+      (await decodeDicom(writeTestDicom({ attributes }))).header?.patientOrientation
+    // An AP film as usually hung: rows run to the patient's left, columns to the feet.
+    expect(await orientation({ PatientOrientation: ['L', 'F'] })).toEqual(['L', 'F'])
+    expect(await orientation({ PatientOrientation: ['r', 'fp'] })).toEqual(['R', 'FP'])
+    expect(await orientation({})).toBeNull()
+    // One value, or letters outside A, P, R, L, H, F: not an orientation.
+    expect(await orientation({ PatientOrientation: ['L'] })).toBeNull()
+    expect(await orientation({ PatientOrientation: ['X', 'F'] })).toBeNull()
+  })
 })

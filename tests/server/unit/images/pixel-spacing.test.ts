@@ -94,3 +94,44 @@ describe('pickFilmSpacing: the order of trust of the measurement reference §5',
     expect(film.header?.spacing.mmPerPixel?.[1]).toBeCloseTo(0.08, 12)
   })
 })
+
+describe('pickFilmSpacing: refuses a spacing no radiograph has', () => {
+  // Radiograph detectors have pixel pitches of roughly 0.05 to 0.2 mm and magnification is
+  // 1.05 to 1.40 on lumbar films (common practice); 0.01 to 5 mm leaves wide room on both sides
+  // while a damaged header's 1e308 (or 1e-308) is plainly not a spacing.
+  it.each([
+    ['Pixel Spacing 1e308', { pixelSpacing: [1e308, 1e308], calibrationType: 'GEOMETRY' }],
+    ['Pixel Spacing 1e300 alone', { pixelSpacing: [1e300, 1e300] }],
+    ['Pixel Spacing 0.001', { pixelSpacing: [0.001, 0.001], calibrationType: 'FIDUCIAL' }],
+    ['Imager Pixel Spacing 6 mm', { imagerPixelSpacing: [6, 6] }],
+    ['one axis only out of range', { imagerPixelSpacing: [0.1, 50] }],
+    [
+      'a magnification that makes it absurd',
+      { imagerPixelSpacing: [0.1, 0.1], magnificationFactor: 1e-300 },
+    ],
+    ['Infinity', { pixelSpacing: [Infinity, Infinity] }],
+  ])('%s: uncalibrated, with a note giving the range', (_label, attributes) => {
+    const spacing = pickFilmSpacing({ ...none, ...attributes })
+    expect(spacing.mmPerPixel).toBeNull()
+    expect(spacing.spacingSource).toBe('none')
+    expect(spacing.note).toMatch(/0\.01.5 mm/)
+    expect(spacing.note).toMatch(/calibrate/i)
+    expect(spacing.note.length).toBeLessThanOrEqual(300)
+  })
+
+  it('keeps spacings at both ends of the range', () => {
+    expect(pickFilmSpacing({ ...none, imagerPixelSpacing: [0.01, 0.01] }).mmPerPixel).toEqual([
+      0.01, 0.01,
+    ])
+    expect(pickFilmSpacing({ ...none, imagerPixelSpacing: [5, 5] }).mmPerPixel).toEqual([5, 5])
+  })
+
+  it('reads 1e308\\1e308 from a real file as uncalibrated', async () => {
+    const film = await decodeDicom(
+      writeTestDicom({
+        attributes: { PixelSpacing: [1e308, 1e308], PixelSpacingCalibrationType: 'GEOMETRY' },
+      }),
+    )
+    expect(film.header?.spacing).toMatchObject({ mmPerPixel: null, spacingSource: 'none' })
+  })
+})

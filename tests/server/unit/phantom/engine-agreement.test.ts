@@ -7,7 +7,10 @@ import { PHANTOM_PRESETS } from '../../../../server/phantom/presets'
 // The measurement engine (shared/measurement, written independently of the generator) must give
 // back the parameters each demo phantom was drawn from.
 describe('computeMeasurements on the phantom presets', () => {
-  it.each(Object.keys(PHANTOM_PRESETS))('gives back the parameters of preset %s', (name) => {
+  const lateral = Object.keys(PHANTOM_PRESETS).filter(
+    (name) => PHANTOM_PRESETS[name]?.view !== 'ap',
+  )
+  it.each(lateral)('gives back the parameters of preset %s', (name) => {
     const { params, landmarks } = phantomGroundTruth(PHANTOM_PRESETS[name])
     const result = computeMeasurements(landmarks)
     for (const segment of SPINE_SEGMENTS) {

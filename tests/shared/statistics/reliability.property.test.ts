@@ -1,0 +1,163 @@
+/**
+ * Properties the ICC and agreement statistics must have whatever the data [D]: they describe
+ * how targets differ relative to how ratings of one target differ, so they cannot depend on the
+ * origin or scale of the unit, on the order of targets or of raters; the average-rater forms are
+ * the Spearman–Brown step-up of the single-rater forms (Shrout & Fleiss 1979, eq. for ICC(·,k));
+ * swapping the two raters of a Bland–Altman comparison mirrors the differences.
+ */
+import { describe, expect, it } from 'vitest'
+import fc from 'fast-check'
+import {
+  blandAltman,
+  ICC_FORMS,
+  intraclassCorrelations,
+  weightedKappaFromTable,
+  type IccAnalysis,
+} from '../../../shared/statistics/index'
+
+/** A measured value rounded to 0.1 of its unit, as the results are. */
+const tenths = (min: number, max: number) =>
+  fc.integer({ min: min * 10, max: max * 10 }).map((x) => x / 10)
+
+/** Tables of 3–15 targets × 2–5 raters: a value per target plus rating noise. */
+const ratingTable = fc
+  .tuple(fc.integer({ min: 3, max: 15 }), fc.integer({ min: 2, max: 5 }))
+  .chain(([n, k]) =>
+    fc.tuple(
+      fc.array(tenths(-100, 100), { minLength: n, maxLength: n }),
+      fc.array(fc.array(tenths(-5, 5), { minLength: k, maxLength: k }), {
+        minLength: n,
+        maxLength: n,
+      }),
+    ),
+  )
+  .map(([truth, noise]) => truth.map((t, i) => noise[i]!.map((e) => t + e)))
+
+function ok(table: number[][]): IccAnalysis | null {
+  const result = intraclassCorrelations(table)
+  return result.status === 'ok' ? result : null
+}
+
+/** Equal to a relative 1e-7 (F grows without bound as the error vanishes), ±∞ alike. */
+function close(actual: number, expected: number): boolean {
+  if (!Number.isFinite(expected)) return actual === expected
+  return Math.abs(actual - expected) <= 1e-7 * Math.max(1, Math.abs(expected))
+}
+
+/** The form statistics that differ between two analyses, as "form key" labels. */
+function differingForms(a: IccAnalysis, b: IccAnalysis): string[] {
+  return ICC_FORMS.flatMap((form) =>
+    (['icc', 'lower', 'upper', 'f'] as const)
+      .filter((key) => !close(b.forms[form][key], a.forms[form][key]))
+      .map((key) => `${form} ${key}`),
+  )
+}
+
+describe('ICC properties', () => {
+  it('does not change when a constant is added to every rating', () => {
+    fc.assert(
+      fc.property(ratingTable, tenths(-1000, 1000), (table, shift) => {
+        const base = ok(table)
+        const shifted = ok(table.map((row) => row.map((x) => x + shift)))
+        if (!base || !shifted) return
+        expect(differingForms(base, shifted)).toEqual([])
+      }),
+    )
+  })
+
+  it('does not change when the unit is rescaled (degrees to radians, mm to cm)', () => {
+    fc.assert(
+      fc.property(ratingTable, fc.constantFrom(Math.PI / 180, 0.1, 2.54, 25.4), (table, scale) => {
+        const base = ok(table)
+        const scaled = ok(table.map((row) => row.map((x) => x * scale)))
+        if (!base || !scaled) return
+        expect(differingForms(base, scaled)).toEqual([])
+      }),
+    )
+  })
+
+  it('does not depend on the order of raters or of targets', () => {
+    fc.assert(
+      fc.property(ratingTable, fc.integer(), (table, seed) => {
+        const base = ok(table)
+        if (!base) return
+        const raterOrder = table[0]!.map((_, j) => j).reverse()
+        const swappedRaters = table.map((row) => raterOrder.map((j) => row[j]!))
+        const rotated = Math.abs(seed) % table.length
+        const reorderedTargets = [...table.slice(rotated), ...table.slice(0, rotated)]
+        expect(differingForms(base, ok(swappedRaters)!)).toEqual([])
+        expect(differingForms(base, ok(reorderedTargets)!)).toEqual([])
+      }),
+    )
+  })
+
+  it('steps single-rater forms up to the mean of k raters by Spearman–Brown', () => {
+    fc.assert(
+      fc.property(ratingTable, (table) => {
+        const result = ok(table)
+        if (!result) return
+        const { k } = result
+        for (const model of ['1', '2', '3'] as const) {
+          const single = result.forms[`${model},1`].icc
+          expect(result.forms[`${model},k`].icc).toBeCloseTo(
+            (k * single) / (1 + (k - 1) * single),
+            8,
+          )
+        }
+      }),
+    )
+  })
+
+  it('keeps every estimate inside its own confidence interval', () => {
+    fc.assert(
+      fc.property(ratingTable, (table) => {
+        const result = ok(table)
+        if (!result) return
+        for (const form of ICC_FORMS) {
+          const { icc, lower, upper } = result.forms[form]
+          expect(lower).toBeLessThanOrEqual(icc + 1e-12)
+          expect(upper).toBeGreaterThanOrEqual(icc - 1e-12)
+          expect(upper).toBeLessThanOrEqual(1 + 1e-12)
+        }
+      }),
+    )
+  })
+})
+
+describe('Bland–Altman and kappa properties', () => {
+  it('mirrors bias and limits when the two raters swap', () => {
+    fc.assert(
+      fc.property(ratingTable, (table) => {
+        const pairs = table.map((row) => [row[0]!, row[1]!])
+        const forward = blandAltman(pairs)
+        const backward = blandAltman(pairs.map(([a, b]) => [b!, a!]))
+        if (forward.status !== 'ok' || backward.status !== 'ok') return
+        expect(backward.bias).toBeCloseTo(-forward.bias, 9)
+        expect(backward.sd).toBeCloseTo(forward.sd, 9)
+        expect(backward.lower).toBeCloseTo(-forward.upper, 9)
+        expect(backward.upper).toBeCloseTo(-forward.lower, 9)
+      }),
+    )
+  })
+
+  it('gives the same symmetric-weight kappa when the raters swap (the table transposed)', () => {
+    const counts = fc.array(fc.array(fc.nat({ max: 20 }), { minLength: 4, maxLength: 4 }), {
+      minLength: 4,
+      maxLength: 4,
+    })
+    fc.assert(
+      fc.property(
+        counts,
+        fc.constantFrom('linear', 'quadratic', 'unweighted' as const),
+        (table, weights) => {
+          const transposed = table[0]!.map((_, j) => table.map((row) => row[j]!))
+          const a = weightedKappaFromTable(table, weights)
+          const b = weightedKappaFromTable(transposed, weights)
+          if (a.status !== 'ok' || b.status !== 'ok') return
+          expect(b.kappa).toBeCloseTo(a.kappa, 10)
+          expect(b.standardError).toBeCloseTo(a.standardError, 10)
+        },
+      ),
+    )
+  })
+})
