@@ -26,6 +26,8 @@ import { invitationsRouter } from './routes/invitations'
 import { settingsRouter } from './routes/settings'
 import { mailRouter } from './routes/mail'
 import { systemClock, type Clock } from './clock'
+import { comparisonsRouter } from './routes/comparisons'
+import { reportsRouter } from './routes/reports'
 import { studiesRouter } from './routes/studies'
 import { exportsRouter } from './routes/exports'
 import { imageDicomRouter } from './routes/image-dicom'
@@ -135,6 +137,8 @@ export function createApp({
   api.use('/measurements', measurementsRouter())
   api.use('/settings', settingsRouter(db))
   api.use('/mail', mailRouter(db, { fakeOn: config.MAIL_FAKE, now }))
+  api.use('/comparisons', comparisonsRouter(db))
+  api.use(reportsRouter(db, store))
   api.use('/studies', studiesRouter(db))
   api.use('/exports', exportsRouter(db))
   // UIDs of de-identified films are keyed by the server secret, so they cannot be traced back.

@@ -214,19 +214,23 @@ export async function submitDraftReading(
   return changed === 1
 }
 
-/** Signs a submitted reading with its final computation; false when the guard fails. */
+/**
+ * Signs a submitted reading under the version guard: status signed, signer and time recorded,
+ * with its final computation when one is given. False when the reading is not submitted or was
+ * changed since `expectedVersion`.
+ */
 export async function signSubmittedReading(
   db: Db,
   id: number,
   expectedVersion: number,
-  computation: ReadingComputation,
   signerId: number,
+  computation?: ReadingComputation,
 ): Promise<boolean> {
   const now = new Date()
   const changed = await db(TABLES.readings)
     .where({ id, version: expectedVersion, status: 'submitted' })
     .update({
-      ...computationColumns(computation),
+      ...(computation ? computationColumns(computation) : {}),
       status: 'signed',
       signed_by: signerId,
       signed_at: now,

@@ -38,7 +38,7 @@ export async function signReading(
     // Recomputed once more, so the signed results are those of the engine and settings in force
     // at signature, and frozen from here on with that engine version.
     const computation = await recomputeStored(trx, reading, image, id)
-    if (!(await signSubmittedReading(trx, id, version, computation, actor.user.id)))
+    if (!(await signSubmittedReading(trx, id, version, actor.user.id, computation)))
       throw new GuardedWriteRefused()
     let replaced = ''
     if (reading.supersedesId !== null) {

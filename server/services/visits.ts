@@ -19,7 +19,7 @@ import type {
 import { actorIdentifies, audit, type Actor } from './audit'
 import { loadVisiblePatient } from './patients'
 
-function toIdentifiedVisit(visit: VisitRecord, patient: PatientRecord): IdentifiedVisit {
+export function toIdentifiedVisit(visit: VisitRecord, patient: PatientRecord): IdentifiedVisit {
   return {
     kind: 'identified',
     id: visit.id,
@@ -35,7 +35,7 @@ function toIdentifiedVisit(visit: VisitRecord, patient: PatientRecord): Identifi
 }
 
 /** Dates and free text are left out: both can identify a patient. */
-function toDeidentifiedVisit(
+export function toDeidentifiedVisit(
   visit: VisitRecord,
   patient: PatientRecord,
   sequence: number,

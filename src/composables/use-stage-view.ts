@@ -29,10 +29,18 @@ export function useStageView(
   const fitted = ref(true)
   let observer: ResizeObserver | null = null
 
-  function fit(): void {
+  /** The transform that fits the whole film in the container now; null before the film is known. */
+  function fittedView(): ViewTransform | null {
     const size = imageSize()
-    if (!size) return
-    view.value = viewTransformFit(size[0], size[1], width.value, height.value, FIT_MARGIN_PX)
+    return size
+      ? viewTransformFit(size[0], size[1], width.value, height.value, FIT_MARGIN_PX)
+      : null
+  }
+
+  function fit(): void {
+    const fitting = fittedView()
+    if (!fitting) return
+    view.value = fitting
     fitted.value = true
   }
 
@@ -89,5 +97,5 @@ export function useStageView(
     container.value?.removeEventListener('wheel', onWheel)
   })
 
-  return { width, height, view, fitted, fit, actualSize, zoomAt, panBy, pinch }
+  return { width, height, view, fitted, fittedView, fit, actualSize, zoomAt, panBy, pinch }
 }

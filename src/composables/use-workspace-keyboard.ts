@@ -24,30 +24,36 @@ function inToolbar(target: EventTarget | null): boolean {
  * Workspace shortcuts: Ctrl/⌘-Z undo, Ctrl/⌘-Shift-Z and Ctrl/⌘-Y redo, Delete/Backspace remove
  * the selected landmark, Tab/Shift-Tab step through the checklist, Escape stop placing, Space
  * held pan. Keys typed into a field are left alone, and so is everything while a dialog is open.
+ * A screen that edits nothing passes only the actions it has: keys without one keep their usual
+ * browser meaning (Tab still moves focus), and Space held still pans.
  */
-export function useWorkspaceKeyboard(actions: WorkspaceKeyActions, enabled: () => boolean) {
+export function useWorkspaceKeyboard(
+  actions: Partial<WorkspaceKeyActions>,
+  enabled: () => boolean,
+) {
   const spaceHeld = ref(false)
 
   function onKeyDown(event: KeyboardEvent): void {
     if (!enabled() || isTyping(event.target) || document.querySelector('.p-dialog-mask')) return
     const command = event.ctrlKey || event.metaKey
     const key = event.key.toLowerCase()
-    if (command && key === 'z') {
+    const { undo, redo, remove, step, escape } = actions
+    if (command && key === 'z' && undo && redo) {
       event.preventDefault()
-      if (event.shiftKey) actions.redo()
-      else actions.undo()
-    } else if (command && key === 'y') {
+      if (event.shiftKey) redo()
+      else undo()
+    } else if (command && key === 'y' && redo) {
       event.preventDefault()
-      actions.redo()
-    } else if (event.key === 'Delete' || event.key === 'Backspace') {
+      redo()
+    } else if ((event.key === 'Delete' || event.key === 'Backspace') && remove) {
       event.preventDefault()
-      actions.remove()
-    } else if (event.key === 'Tab' && !inToolbar(event.target)) {
+      remove()
+    } else if (event.key === 'Tab' && step && !inToolbar(event.target)) {
       // Tab steps through landmarks; in the bars it still moves focus between controls.
       event.preventDefault()
-      actions.step(event.shiftKey ? -1 : 1)
-    } else if (event.key === 'Escape') {
-      actions.escape()
+      step(event.shiftKey ? -1 : 1)
+    } else if (event.key === 'Escape' && escape) {
+      escape()
     } else if (event.key === ' ') {
       // Space would otherwise press the focused button.
       event.preventDefault()

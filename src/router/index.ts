@@ -23,6 +23,10 @@ export type RouteName =
   | 'password-reset-request'
   | 'password-reset'
   | 'not-found'
+  | 'compare'
+  | 'compare-print'
+  | 'reading-report'
+  | 'visit-report'
 
 declare module 'vue-router' {
   interface RouteMeta {
@@ -32,6 +36,15 @@ declare module 'vue-router' {
     permission?: Permission
     title?: string
   }
+}
+
+/** Ids from a query value written "12,15"; anything that is not a positive integer is dropped. */
+function idsOf(value: unknown): number[] {
+  const text = Array.isArray(value) ? value.join(',') : typeof value === 'string' ? value : ''
+  return text
+    .split(',')
+    .map(Number)
+    .filter((id) => Number.isSafeInteger(id) && id > 0)
 }
 
 const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
@@ -86,6 +99,42 @@ const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
     component: () => import('@/views/ReadingWorkspaceView.vue'),
     props: (route) => ({ readingId: Number(route.params.readingId) }),
     meta: { permission: 'patient:read', title: 'Reading' },
+  },
+  {
+    path: '/patients/:patientId/compare',
+    name: 'compare',
+    component: () => import('@/views/CompareView.vue'),
+    props: (route) => ({
+      patientId: Number(route.params.patientId),
+      images: idsOf(route.query.images),
+      readings: idsOf(route.query.readings),
+    }),
+    meta: { permission: 'patient:read', title: 'Compare' },
+  },
+  {
+    path: '/patients/:patientId/compare/print',
+    name: 'compare-print',
+    component: () => import('@/views/ComparePrintView.vue'),
+    props: (route) => ({
+      patientId: Number(route.params.patientId),
+      images: idsOf(route.query.images),
+      readings: idsOf(route.query.readings),
+    }),
+    meta: { permission: 'patient:read', title: 'Comparison to print' },
+  },
+  {
+    path: '/readings/:readingId/report',
+    name: 'reading-report',
+    component: () => import('@/views/ReportPrintView.vue'),
+    props: (route) => ({ kind: 'reading', id: Number(route.params.readingId) }),
+    meta: { permission: 'patient:read', title: 'Reading report' },
+  },
+  {
+    path: '/visits/:visitId/report',
+    name: 'visit-report',
+    component: () => import('@/views/ReportPrintView.vue'),
+    props: (route) => ({ kind: 'visit', id: Number(route.params.visitId) }),
+    meta: { permission: 'patient:read', title: 'Visit report' },
   },
   {
     path: '/studies',

@@ -1,4 +1,4 @@
-import { OVERLAY_COLOURS, type OverlayShape } from './reading-overlay-shapes'
+import { OVERLAY_COLOURS, type OverlayShape } from '@shared/overlays'
 
 const HALO = 'rgba(6, 8, 10, 0.85)'
 const LABEL_BACKGROUND = 'rgba(10, 12, 14, 0.82)'

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { computeMeasurements } from '../../../shared/measurement/compute-measurements'
 import { computeUncertainty } from '../../../shared/measurement/uncertainty'
 import type { PixelPoint } from '../../../shared/types/landmarks'
-import { workspaceResultSections } from '../../../src/components/workspace/reading-results-rows'
+import { workspaceResultSections } from '../../../shared/readings/result-rows'
 
 /**
  * Level endplates 200 px wide at 0.2 mm/px (40 mm) and an implant whose centre sits 20 px =

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { SOURCES } from '../../shared/measurement/sources'
-import { sourceWords } from '../../src/utils/source-words'
+import { SOURCES } from '../../../shared/measurement/sources'
+import { sourceWords } from '../../../shared/readings/source-words'
 
 // The tags are for code and tests only; a clinician reads the citation, or "derived", or
 // "from memory, verify" (the project's rule for results and reports).

@@ -1,4 +1,4 @@
-import type { SpacingSource } from '@shared/types/domain'
+import type { SpacingSource } from '../types/domain'
 import type {
   DiscHeights,
   FrontalImageRightSide,
@@ -13,11 +13,11 @@ import type {
   SubsidenceResult,
   UncertaintyResult,
   ValueInterval,
-} from '@shared/types/measurement'
-import type { ReadingTemplate } from '@shared/types/domain'
-import type { TemplateOptions } from '@shared/readings/templates'
-import { frontalSideWords, implantCentring, MEYERDING_RULE, SOURCES } from '@shared/measurement'
-import { sourceWords } from '@/utils/source-words'
+} from '../types/measurement'
+import type { ReadingTemplate } from '../types/domain'
+import type { TemplateOptions } from './templates'
+import { frontalSideWords, implantCentring, MEYERDING_RULE, SOURCES } from '../measurement/index'
+import { sourceWords } from './source-words'
 
 /** Where a film's mm scale comes from, in the words shown beside every mm value. */
 export const SPACING_SOURCE_LABELS: Record<SpacingSource, string> = {

@@ -1,8 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import type { PixelPoint } from '../../../shared/types/landmarks'
 import { computeMeasurements, computeUncertainty } from '../../../shared/measurement'
-import { readingOverlayShapes } from '../../../src/components/workspace/reading-overlay-shapes'
-import { workspaceResultSections } from '../../../src/components/workspace/reading-results-rows'
+import { workspaceResultSections } from '../../../shared/readings/result-rows'
 
 /**
  * A hand-built L5-S1 segment: S1's endplate horizontal, 40 px deep, anterior to +x; L5 shifted
@@ -25,51 +24,6 @@ function segment(): Record<string, PixelPoint> {
     'L5.as': rotate([40, -30]),
   }
 }
-
-describe('readingOverlayShapes', () => {
-  const points = segment()
-  const results = computeMeasurements({ mmPerPixel: 0.5, points })
-  const shapes = readingOverlayShapes(points, results)
-
-  it('draws the slip offset along the lower endplate, as long as the Taillard slip', () => {
-    const offset = shapes.find((shape) => shape.id === 'slip-L5-S1')
-    expect(offset?.kind).toBe('line')
-    const [x1, y1, x2, y2] = offset?.kind === 'line' ? offset.points : []
-    expect(Math.hypot(x2! - x1!, y2! - y1!)).toBeCloseTo(10, 9)
-    const label = shapes.find((shape) => shape.id === 'slip-label-L5-S1')
-    expect(label?.kind === 'label' && label.text).toBe('slip 25.0 %')
-  })
-
-  it('colours by kind of line: endplates, walls and the slip, pelvic lines', () => {
-    const category = (id: string) => shapes.find((shape) => shape.id === id)?.category
-    expect(category('endplate-sup-L5')).toBe('endplate')
-    expect(category('endplate-sup-S1')).toBe('endplate')
-    expect(category('wall-L5')).toBe('wall')
-    expect(category('slip-L5-S1')).toBe('wall')
-    const withHips = readingOverlayShapes(
-      { ...points, FH1: [60, 220] },
-      computeMeasurements({ points: { ...points, FH1: [60, 220] } }),
-    )
-    expect(
-      withHips.filter((shape) => shape.category === 'pelvic').map((shape) => shape.id),
-    ).toEqual(
-      expect.arrayContaining(['sacral-plate', 'sacral-perpendicular', 'hip-axis-line', 'head-FH1']),
-    )
-  })
-
-  it('labels the segmental lordosis arc with the engine value and its unit', () => {
-    const label = shapes.find((shape) => shape.id === 'lordosis-label-L5-S1')
-    expect(label?.kind === 'label' && label.text).toBe(
-      `L5-S1 ${results.segments['L5-S1']!.segmentalLordosisDeg!.toFixed(1)}°`,
-    )
-    const arc = shapes.find((shape) => shape.id === 'lordosis-arc-L5-S1')
-    expect(arc?.kind === 'arc' && arc.angleDeg).toBeCloseTo(10, 6)
-  })
-
-  it('draws nothing for landmarks that do not make a line yet', () => {
-    expect(readingOverlayShapes({ 'L5.as': [1, 1] }, null)).toEqual([])
-  })
-})
 
 describe('workspaceResultSections', () => {
   const points = segment()

@@ -1,0 +1,98 @@
+import type { Point } from '../geometry/types'
+import type { MeasurementResult } from '../types/measurement'
+import { SEGMENT_NAMES } from '../measurement/landmark-names'
+import type { OverlayPoints, OverlayShape } from './overlay-shapes'
+import { overlayNumberText } from './overlay-labels'
+import { overlayLine } from './overlay-primitives'
+
+/**
+ * Overlays of a frontal (AP) film read for implant centring, image px (measurement-reference
+ * §11 landmarks): each segment's endplate lines U.il → U.ir and W.sl → W.sr, the implant's line
+ * tdr.l → tdr.r, the body midline (dashed, through the mean m of the four corners, at right
+ * angles to e = unit((U.ir − U.il) + (W.sr − W.sl)), as long as the disc is high), a ring at the
+ * implant's centre and at the spinous process tip, and the engine's lateral offset as the label
+ * (its sign says the image side: positive toward the image's right edge).
+ */
+export function frontalOverlayShapes(
+  points: OverlayPoints,
+  results: MeasurementResult | null,
+): OverlayShape[] {
+  const shapes: OverlayShape[] = []
+  for (const segment of SEGMENT_NAMES) {
+    const [u, w] = segment.split('-') as [string, string]
+    const uil = points[`${u}.il`]
+    const uir = points[`${u}.ir`]
+    const wsl = points[`${w}.sl`]
+    const wsr = points[`${w}.sr`]
+    const tl = points[`tdr.${segment}.l`]
+    const tr = points[`tdr.${segment}.r`]
+    if (uil && uir) shapes.push(overlayLine(`frontal-upper-${segment}`, 'endplate', uil, uir))
+    if (wsl && wsr) shapes.push(overlayLine(`frontal-lower-${segment}`, 'endplate', wsl, wsr))
+    if (tl && tr) {
+      shapes.push(overlayLine(`frontal-implant-${segment}`, 'implant', tl, tr))
+      shapes.push({
+        kind: 'ring',
+        id: `frontal-implant-centre-${segment}`,
+        category: 'implant',
+        center: [(tl[0] + tr[0]) / 2, (tl[1] + tr[1]) / 2],
+        radiusPx: 0,
+      })
+    }
+    const sp = points[`${u}.sp`]
+    if (sp)
+      shapes.push({
+        kind: 'ring',
+        id: `frontal-spinous-${u}`,
+        category: 'wall',
+        center: sp,
+        radiusPx: 0,
+      })
+    if (!uil || !uir || !wsl || !wsr) continue
+    const sum: Point = [uir[0] - uil[0] + wsr[0] - wsl[0], uir[1] - uil[1] + wsr[1] - wsl[1]]
+    const length = Math.hypot(sum[0], sum[1])
+    if (length === 0) continue
+    const e: Point = [sum[0] / length, sum[1] / length]
+    const m: Point = [
+      (uil[0] + uir[0] + wsl[0] + wsr[0]) / 4,
+      (uil[1] + uir[1] + wsl[1] + wsr[1]) / 4,
+    ]
+    const upperMid: Point = [(uil[0] + uir[0]) / 2, (uil[1] + uir[1]) / 2]
+    const lowerMid: Point = [(wsl[0] + wsr[0]) / 2, (wsl[1] + wsr[1]) / 2]
+    const half =
+      Math.max(Math.hypot(upperMid[0] - lowerMid[0], upperMid[1] - lowerMid[1]), 1) * 0.75
+    const normal: Point = [-e[1], e[0]]
+    shapes.push(
+      overlayLine(
+        `frontal-midline-${segment}`,
+        'wall',
+        [m[0] - normal[0] * half, m[1] - normal[1] * half],
+        [m[0] + normal[0] * half, m[1] + normal[1] * half],
+        true,
+      ),
+    )
+    const offset = results?.frontal?.[segment]
+    const text =
+      offset?.lateralOffsetMm != null
+        ? overlayNumberText(Math.abs(offset.lateralOffsetMm), 1, 'mm')
+        : overlayNumberText(
+            offset?.lateralOffsetPercent != null ? Math.abs(offset.lateralOffsetPercent) : null,
+            1,
+            '%',
+          )
+    const signed = offset?.lateralOffsetMm ?? offset?.lateralOffsetPercent ?? null
+    if (text && signed !== null) {
+      const towards =
+        Math.abs(signed) < 0.05 ? 'centred' : signed > 0 ? 'to image right' : 'to image left'
+      const right = uir[0] >= uil[0] ? uir : uil
+      shapes.push({
+        kind: 'label',
+        id: `frontal-offset-label-${segment}`,
+        category: 'implant',
+        at: [right[0] + length * 0.08, (right[1] + (wsr[0] >= wsl[0] ? wsr : wsl)[1]) / 2],
+        text: `${segment} offset ${text} ${towards}`,
+        anchor: 'start',
+      })
+    }
+  }
+  return shapes
+}
