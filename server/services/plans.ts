@@ -145,13 +145,30 @@ async function buildPlan(db: Db, patient: PatientRecord): Promise<PatientPlan> {
 }
 
 /**
- * The plan carries no identity (segments, findings, measures), so researchers may read it too;
- * they get no save times, which could date the surgery.
+ * Segments, findings and measures carry no identity, so researchers may read the plan too. They
+ * get no free-text notes (a note can hold a name, a record number or a date, like a visit's
+ * indication) and no save times, which could date the surgery.
  */
+export function deidentifiedPlan(plan: PatientPlan): PatientPlan {
+  return {
+    ...plan,
+    segments: plan.segments.map((segment) => ({ ...segment, notes: null, updatedAt: null })),
+  }
+}
+
 export async function getPlan(db: Db, actor: Actor, patientId: number): Promise<PatientPlan> {
-  const plan = await buildPlan(db, await loadVisiblePatient(db, actor, patientId))
-  if (roleCan(actor.user.role, 'patient:identify')) return plan
-  return { ...plan, segments: plan.segments.map((segment) => ({ ...segment, updatedAt: null })) }
+  const patient = await loadVisiblePatient(db, actor, patientId)
+  const plan = await buildPlan(db, patient)
+  const identifies = roleCan(actor.user.role, 'patient:identify')
+  await audit(
+    db,
+    actor,
+    'view',
+    'plan',
+    patientId,
+    `Opened the plan of patient ${patient.studyCode}${identifies ? '' : ' (de-identified)'}`,
+  )
+  return identifies ? plan : deidentifiedPlan(plan)
 }
 
 function describe(input: PlanSegmentInput): string {

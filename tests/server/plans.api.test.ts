@@ -132,6 +132,20 @@ describe('GET /api/patients/:id/plan', () => {
     expect(admin.status).toBe(403)
   })
 
+  it('clears free-text notes for a researcher, as a visit indication is cleared', async () => {
+    // An invented note holding the kinds of identity a clinician may type: name, record number, birth date.
+    const note = 'Ada Invented, MRN 4711-0815, born 1961-04-12: discussed risks'
+    expect((await putSegment('L4-L5', { treatment: 'decompression', notes: note })).status).toBe(
+      200,
+    )
+    const surgeon = await getPlan()
+    expect(segmentOf(surgeon.body, 'L4-L5').notes).toBe(note)
+    const researcher = await getPlan(users.researcher)
+    expect(researcher.status).toBe(200)
+    expect(segmentOf(researcher.body, 'L4-L5').notes).toBeNull()
+    expect(JSON.stringify(researcher.body)).not.toMatch(/Ada|4711|1961/)
+  })
+
   it("answers 404 for a patient outside the researcher's studies", async () => {
     const other = await insertTestPatient(db, users.fellow.id)
     const res = await request(app)
