@@ -48,6 +48,9 @@ function connectionFor(database: string, options: ConnectionOptions = {}): Knex.
       loadExtensions: ['.ts'],
       tableName: 'knex_migrations',
     },
+    // A failing statement's message carries the SQL with '?' placeholders, never the values
+    // bound into it (names, birth dates), so error logs cannot leak them.
+    compileSqlOnError: false,
     seeds: { directory: here('./seeds'), extension: 'ts', loadExtensions: ['.ts'] },
   }
 }

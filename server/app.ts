@@ -34,6 +34,7 @@ import { imageDicomRouter } from './routes/image-dicom'
 import { createLocalFileStore } from './storage/local-file-store'
 import type { FileStore } from './storage/file-store'
 import { projectRoot } from './project-root'
+import { serializeError } from './logger'
 
 export interface AppDependencies {
   db: Db
@@ -81,7 +82,11 @@ export function createApp({
     pinoHttp({
       logger,
       autoLogging: { ignore: (req) => req.url === '/api/health' },
-      serializers: { req: (req) => ({ method: req.method, url: String(req.url).split('?')[0] }) },
+      // Method and path only: headers, query strings and bodies can carry credentials or names.
+      serializers: {
+        req: (req) => ({ method: req.method, url: String(req.url).split('?')[0] }),
+        err: serializeError,
+      },
     }),
   )
   app.use(cookieParser())

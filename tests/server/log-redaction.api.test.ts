@@ -1,0 +1,77 @@
+import { Writable } from 'node:stream'
+import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
+import request from 'supertest'
+import type { Express } from 'express'
+import { createApp } from '../../server/app'
+import { createLogger } from '../../server/logger'
+import type { Db } from '../../server/db/knex'
+import type { AppConfig } from '../../server/config'
+import { TABLES } from '../../server/db/tables'
+import type { Role } from '../../shared/types/domain'
+import { openTestDb, truncateAll } from '../support/test-db'
+import { createUsersForEveryRole, testConfig, type TestUser } from '../support/test-app'
+
+let db: Db
+let app: Express
+let config: AppConfig
+let users: Record<Role, TestUser>
+let logLines: string[]
+
+beforeAll(async () => {
+  db = await openTestDb()
+  config = testConfig()
+  const captured = new Writable({
+    write(chunk: Buffer, _encoding, done) {
+      logLines.push(chunk.toString('utf8'))
+      done()
+    },
+  })
+  app = createApp({
+    db,
+    config,
+    logger: createLogger('info', captured),
+    clientDir: '/nonexistent',
+  })
+})
+afterAll(async () => {
+  await db.destroy()
+})
+beforeEach(async () => {
+  await truncateAll(db)
+  users = await createUsersForEveryRole(db, config)
+  logLines = []
+})
+
+// An invented patient; the check below looks for each identifying value in the log.
+const patient = {
+  recordNumber: 'EPX-7321',
+  familyName: 'Quillfeather',
+  givenName: 'Orsolya',
+  birthDate: '1958-11-03',
+  sex: 'female',
+}
+
+describe('the application log on an unexpected database error', () => {
+  it('holds neither the SQL values nor the request body of a patient write', async () => {
+    // A CHECK constraint makes MariaDB refuse every insert: an error no handler expects (a 500).
+    await db.raw(
+      `ALTER TABLE \`${TABLES.patients}\` ADD CONSTRAINT refuse_for_log_test CHECK (CHAR_LENGTH(family_name) > 1000)`,
+    )
+    try {
+      const res = await request(app)
+        .post('/api/patients')
+        .set('Cookie', users.fellow.cookie)
+        .send(patient)
+      expect(res.status).toBe(500)
+      expect(JSON.stringify(res.body)).not.toContain('Quillfeather')
+    } finally {
+      await db.raw(`ALTER TABLE \`${TABLES.patients}\` DROP CONSTRAINT refuse_for_log_test`)
+    }
+    const log = logLines.join('')
+    // The error was logged (with its error number: 4025, a failed CHECK constraint in MariaDB), so the absence below is not an empty log.
+    expect(log).toMatch(/unhandled error/)
+    expect(log).toMatch(/"errno":4025/)
+    for (const value of [patient.familyName, patient.givenName, patient.birthDate, 'EPX-7321'])
+      expect(log).not.toContain(value)
+  })
+})
