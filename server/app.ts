@@ -101,7 +101,7 @@ export function createApp({
 
   const api = express.Router()
   api.use(sameOriginWrites)
-  api.use('/health', healthRouter(db))
+  api.use('/health', healthRouter(db, requireSession))
   api.use(
     '/auth',
     authRouter({

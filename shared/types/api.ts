@@ -123,9 +123,14 @@ export interface VisitInput {
 
 export type VisitPatch = Partial<VisitInput> & { version: number }
 
+/** What the public health probe says: up or not, and nothing that fingerprints the build. */
 export interface HealthStatus {
   status: 'ok' | 'degraded'
   database: 'up' | 'down'
+}
+
+/** The health probe's details for a signed-in administrator. */
+export interface HealthDetails extends HealthStatus {
   migrations: { applied: number; pending: number } | null
   version: string
 }

@@ -27,6 +27,8 @@ export const PERMISSIONS = {
   'user:manage': ['admin'],
   'audit:read': ['admin'],
   'settings:write': ['admin'],
+  /** The build's version and migration counts (the public health probe leaves them out). */
+  'system:inspect': ['admin'],
   /** The outbox's undelivered mail and, in development, the mails the local fake caught. */
   'mail:read': ['admin'],
 } as const satisfies Record<string, readonly Role[]>
