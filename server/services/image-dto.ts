@@ -55,6 +55,7 @@ export function toImageRecord(
     contentHash: identified ? image.contentHash : null,
     sizeBytes: image.sizeBytes,
     version: image.version,
+    uploadedBy: identified ? image.uploadedBy : null,
     createdAt: identified ? image.createdAt : null,
     urls: {
       display: `${base}/display?${version}`,

@@ -22,7 +22,8 @@ import { isPlausibleSpacingMm, PLAUSIBLE_SPACING_MM } from '../images/dicom/pixe
 import { lockFilmContents } from '../db/film-files'
 import { contentFolder, removeUnreferencedFiles } from './film-content'
 import type { StreamedUpload } from '../middleware/upload'
-import { asNotFound, badRequest, conflict, HttpError, notFound } from '../errors'
+import { asNotFound, badRequest, conflict, forbidden, HttpError, notFound } from '../errors'
+import { mayManageFilm } from '../../shared/types/permissions'
 import { IMAGE_VIEWS, type ImageView } from '../../shared/types/domain'
 import type { CalibrationInput, ImageRecord, PatientMismatch } from '../../shared/types/api'
 import { actorIdentifies, audit, type Actor } from './audit'
@@ -378,6 +379,11 @@ export async function openRendition(
   return { stream, mediaType, etag: `"${image.id}-${name}"` }
 }
 
+function assertMayManageFilm(actor: Actor, image: ImageRow, what: string): void {
+  if (!mayManageFilm(actor.user, image))
+    throw forbidden(`Only the one who uploaded this film, or a surgeon, may ${what} it.`)
+}
+
 export async function removeImage(
   db: Db,
   store: FileStore,
@@ -385,6 +391,7 @@ export async function removeImage(
   imageId: number,
 ): Promise<void> {
   const image = await loadVisibleImage(db, actor, imageId)
+  assertMayManageFilm(actor, image, 'delete')
   await db.transaction(async (trx) => {
     if ((await countReadingsOfImage(trx, imageId)) > 0) {
       throw conflict(
@@ -415,6 +422,7 @@ export async function calibrateImage(
   input: CalibrationInput,
 ): Promise<ImageRecord> {
   const image = await loadVisibleImage(db, actor, imageId)
+  assertMayManageFilm(actor, image, 'recalibrate')
   const [[x1, y1], [x2, y2]] = input.line
   for (const [x, y] of input.line) {
     if (x < 0 || y < 0 || x > image.width || y > image.height) {

@@ -179,6 +179,8 @@ export interface ImageRecord {
   contentHash: string | null
   sizeBytes: number
   version: number
+  /** The account that uploaded the film (it may delete and recalibrate it); null for researchers. */
+  uploadedBy: number | null
   /** Null for researchers: upload times betray visit dates. */
   createdAt: string | null
   urls: { display: string; preview: string; thumbnail: string; fullDepth: string }

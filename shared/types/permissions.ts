@@ -39,6 +39,19 @@ export function roleCan(role: Role, permission: Permission): boolean {
   return (PERMISSIONS[permission] as readonly Role[]).includes(role)
 }
 
+/**
+ * Deleting or recalibrating a film changes what every reading of it rests on: the one who
+ * uploaded it may, and surgeons (who sign readings) may; other fellows may not. Administrators
+ * hold no film permissions at all.
+ */
+export function mayManageFilm(
+  user: { id: number; role: Role },
+  film: { uploadedBy: number | null },
+): boolean {
+  if (!roleCan(user.role, 'image:upload')) return false
+  return user.role === 'surgeon' || film.uploadedBy === user.id
+}
+
 export const ROLE_LABELS: Record<Role, string> = {
   admin: 'Administrator',
   surgeon: 'Surgeon',

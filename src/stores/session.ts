@@ -1,7 +1,7 @@
 import { computed, ref } from 'vue'
 import { defineStore } from 'pinia'
 import type { LoginInput, SessionUser } from '@shared/types/api'
-import { roleCan, type Permission } from '@shared/types/permissions'
+import { mayManageFilm, roleCan, type Permission } from '@shared/types/permissions'
 import { getCurrentUser, signIn, signOut } from '@/api/auth'
 import { ApiError } from '@/api/http'
 
@@ -13,6 +13,11 @@ export const useSessionStore = defineStore('session', () => {
   const isSignedIn = computed(() => user.value !== null)
   function can(permission: Permission): boolean {
     return user.value !== null && roleCan(user.value.role, permission)
+  }
+
+  /** Delete or recalibrate: the film's uploader or a surgeon (the server checks it too). */
+  function canManageFilm(film: { uploadedBy: number | null }): boolean {
+    return user.value !== null && mayManageFilm(user.value, film)
   }
 
   async function restore(): Promise<void> {
@@ -52,5 +57,5 @@ export const useSessionStore = defineStore('session', () => {
     user.value = null
   }
 
-  return { user, checked, isSignedIn, can, restore, login, adopt, logout, forget }
+  return { user, checked, isSignedIn, can, canManageFilm, restore, login, adopt, logout, forget }
 })

@@ -41,6 +41,9 @@ interface Ids {
   visitVersion: () => Promise<number>
   readingVersion: () => Promise<number>
   imageVersion: () => Promise<number>
+  /** A film the surgeon uploaded, with a reading: other fellows may neither delete nor recalibrate it. */
+  surgeonImageId: number
+  surgeonImageVersion: () => Promise<number>
   studyVersion: () => Promise<number>
 }
 
@@ -191,6 +194,24 @@ const ROUTES: RouteCase[] = [
     path: (ids) => `/api/readings/${ids.readingId}/amendments`,
     body: () => ({ reason: 'matrix' }),
     expect: { anonymous: 401, admin: 403, surgeon: 409, fellow: 409, researcher: 403 },
+  },
+  // Only the uploader or a surgeon manages a film: the fellow did not upload this one.
+  {
+    method: 'patch',
+    path: (ids) => `/api/images/${ids.surgeonImageId}/calibration`,
+    body: () => ({
+      line: [
+        [0, 0],
+        [100, 0],
+      ],
+    }),
+    version: (ids) => ids.surgeonImageVersion(),
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'delete',
+    path: (ids) => `/api/images/${ids.surgeonImageId}`,
+    expect: { anonymous: 401, admin: 403, surgeon: 409, fellow: 403, researcher: 403 },
   },
   {
     method: 'get',
@@ -467,6 +488,13 @@ beforeEach(async () => {
   if (submitted.status !== 200)
     throw new Error(`could not submit the matrix reading: ${JSON.stringify(submitted.body)}`)
   const submittedReadingId = second.body.id as number
+  const surgeonImageId = await insertTestFilm(db, visitId, users.surgeon.id)
+  const surgeonReading = await request(app)
+    .post(`/api/images/${surgeonImageId}/readings`)
+    .set('Cookie', users.surgeon.cookie)
+    .send({ template: 'slip-grade', options: { segment: 'L5-S1' }, points: SLIP_GRADE_L5_S1 })
+  if (surgeonReading.status !== 201)
+    throw new Error(`could not start the surgeon's reading: ${JSON.stringify(surgeonReading.body)}`)
   ids = {
     patientId,
     visitId,
@@ -482,6 +510,9 @@ beforeEach(async () => {
     visitVersion: async () => (await db('visits').where({ id: visitId }).first()).version,
     readingVersion: async () => (await db('readings').where({ id: readingId }).first()).version,
     imageVersion: async () => (await db('images').where({ id: imageId }).first()).version,
+    surgeonImageId,
+    surgeonImageVersion: async () =>
+      (await db('images').where({ id: surgeonImageId }).first()).version,
     studyVersion: async () => (await db('studies').where({ id: studyId }).first()).version,
   }
 })
