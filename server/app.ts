@@ -132,6 +132,7 @@ export function createApp({
       store,
       uploadTmpDir: join(config.uploadDirAbsolute, 'tmp'),
       uploadMaxMb: config.UPLOAD_MAX_MB,
+      uploadRequestMaxMb: config.UPLOAD_REQUEST_MAX_MB,
       uploadQueueLimit: config.UPLOAD_QUEUE_LIMIT,
     }),
   )

@@ -43,6 +43,7 @@ const envSchema = z.object({
   LOGIN_RATE_LIMIT_PER_MINUTE: z.coerce.number().int().min(1).default(20),
   UPLOAD_DIR: z.string().default('uploads'),
   UPLOAD_MAX_MB: z.coerce.number().positive().default(100),
+  UPLOAD_REQUEST_MAX_MB: z.coerce.number().positive().default(500),
   UPLOAD_QUEUE_LIMIT: z.coerce.number().int().min(1).default(100),
   SMTP_HOST: z.string().default('127.0.0.1'),
   SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(4782),

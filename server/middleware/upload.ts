@@ -24,9 +24,36 @@ export interface StreamedUpload {
 /** Every temporary file a request started, so a broken upload can remove even half-written ones. */
 const TEMP_PATHS = Symbol('uploadTempPaths')
 const ABANDONED = Symbol('uploadAbandoned')
-type TrackedRequest = Request & { [TEMP_PATHS]?: string[]; [ABANDONED]?: boolean }
+/** Bytes of every file of the request so far, against the per-request limit. */
+const TOTAL_BYTES = Symbol('uploadTotalBytes')
+type TrackedRequest = Request & {
+  [TEMP_PATHS]?: string[]
+  [ABANDONED]?: boolean
+  [TOTAL_BYTES]?: number
+}
 
-function hashingDiskStorage(tmpDir: string): StorageEngine {
+export interface UploadLimits {
+  /** Largest single file, in megabytes. */
+  fileMaxMb: number
+  /** All files of one request together, in megabytes. */
+  requestMaxMb: number
+}
+
+/** At most this many files per request, and this many other form fields. */
+export const MAX_FILES_PER_UPLOAD = 20
+const MAX_FIELDS_PER_UPLOAD = 50
+
+const megabytes = (mb: number) => Math.round(mb * 1024 * 1024)
+
+function requestTooLarge(limits: UploadLimits): HttpError {
+  return new HttpError(
+    413,
+    'too_large',
+    `The files of one upload may add up to ${limits.requestMaxMb} MB at most; send fewer at a time.`,
+  )
+}
+
+function hashingDiskStorage(tmpDir: string, limits: UploadLimits): StorageEngine {
   return {
     _handleFile(req, file, callback) {
       // Made on every upload: an operator clearing the uploads folder must not break the next one.
@@ -35,8 +62,14 @@ function hashingDiskStorage(tmpDir: string): StorageEngine {
       ;((req as TrackedRequest)[TEMP_PATHS] ??= []).push(path)
       const hash = createHash('sha256')
       let size = 0
+      const tracked = req as TrackedRequest
       const counter = new Transform({
         transform(chunk: Buffer, _encoding, next) {
+          tracked[TOTAL_BYTES] = (tracked[TOTAL_BYTES] ?? 0) + chunk.length
+          if (tracked[TOTAL_BYTES] > megabytes(limits.requestMaxMb)) {
+            next(requestTooLarge(limits))
+            return
+          }
           hash.update(chunk)
           size += chunk.length
           next(null, chunk)
@@ -85,13 +118,26 @@ function requireMultipartBoundary(req: Request): void {
   }
 }
 
-export function filmUpload(tmpDir: string, maxMegabytes: number): RequestHandler {
+/** A declared body larger than the request limit is refused before a byte is read. */
+function refuseDeclaredOversize(req: Request, limits: UploadLimits): void {
+  const declared = Number(req.get('content-length') ?? NaN)
+  if (Number.isFinite(declared) && declared > megabytes(limits.requestMaxMb))
+    throw requestTooLarge(limits)
+}
+
+export function filmUpload(tmpDir: string, limits: UploadLimits): RequestHandler {
   const parse = multer({
-    storage: hashingDiskStorage(tmpDir),
-    limits: { fileSize: Math.round(maxMegabytes * 1024 * 1024), files: 20, fields: 50 },
-  }).array('file', 20)
+    storage: hashingDiskStorage(tmpDir, limits),
+    limits: {
+      fileSize: megabytes(limits.fileMaxMb),
+      files: MAX_FILES_PER_UPLOAD,
+      fields: MAX_FIELDS_PER_UPLOAD,
+      parts: MAX_FILES_PER_UPLOAD + MAX_FIELDS_PER_UPLOAD,
+    },
+  }).array('file', MAX_FILES_PER_UPLOAD)
   return (req, res, next) => {
     requireMultipartBoundary(req)
+    refuseDeclaredOversize(req, limits)
     parse(req, res, next)
   }
 }
@@ -105,39 +151,69 @@ export function uploadsOf(files: unknown): StreamedUpload[] {
   }))
 }
 
-/** Multer's own errors as clear 4xx answers (it has already removed the partial files). */
-export function uploadErrorHandler(maxMegabytes: number): ErrorRequestHandler {
+/**
+ * Busboy's messages for a body it could not parse, in our words; the parser's own text never
+ * reaches the client.
+ */
+const MULTIPART_PROBLEMS: Array<[pattern: RegExp, message: string]> = [
+  [
+    /unexpected end of (form|file)/i,
+    'The upload ended before its last part was complete (the connection broke or the body was cut short). Send it again.',
+  ],
+  [/malformed part header/i, 'A part of the upload has a header that cannot be read.'],
+  [/boundary not found/i, 'The upload names no multipart boundary, so its parts cannot be read.'],
+]
+
+function multipartProblem(error: unknown): string {
+  const text = error instanceof Error ? error.message : ''
+  const known = MULTIPART_PROBLEMS.find(([pattern]) => pattern.test(text))
+  return known ? known[1] : 'The upload could not be read as multipart/form-data.'
+}
+
+function multerProblem(error: multer.MulterError, limits: UploadLimits): [number, string] {
+  switch (error.code) {
+    case 'LIMIT_FILE_SIZE':
+      return [413, `A file is larger than the ${limits.fileMaxMb} MB limit.`]
+    case 'LIMIT_FILE_COUNT':
+      return [400, `At most ${MAX_FILES_PER_UPLOAD} files can be uploaded at once.`]
+    case 'LIMIT_PART_COUNT':
+      return [
+        400,
+        `The upload has too many parts: at most ${MAX_FILES_PER_UPLOAD} files and ${MAX_FIELDS_PER_UPLOAD} other fields.`,
+      ]
+    case 'LIMIT_FIELD_COUNT':
+      return [400, `The upload has more than ${MAX_FIELDS_PER_UPLOAD} form fields.`]
+    case 'LIMIT_FIELD_KEY':
+      return [400, 'A form field of the upload has too long a name.']
+    case 'LIMIT_FIELD_VALUE':
+      return [400, 'A form field of the upload has too long a value.']
+    case 'LIMIT_UNEXPECTED_FILE':
+      return [400, 'Files must be sent in the multipart field "file".']
+    default:
+      return [400, 'The upload has a form field that cannot be read.']
+  }
+}
+
+/** Multer's and busboy's errors as clear 4xx answers (partial files are removed first). */
+export function uploadErrorHandler(limits: UploadLimits): ErrorRequestHandler {
   return async (error, req, _res, next) => {
     // Multer removes the files it finished; a file cut off mid-stream is removed here.
     ;(req as TrackedRequest)[ABANDONED] = true
     await Promise.all(
       ((req as TrackedRequest)[TEMP_PATHS] ?? []).map((path) => rm(path, { force: true })),
     )
-    if (!(error instanceof multer.MulterError)) {
-      // Multer marks every error it aborted an upload with (busboy's "Unexpected end of form",
-      // a malformed part header): the client sent a broken body, not a server fault.
-      const fromMultipart = typeof error === 'object' && error !== null && 'storageErrors' in error
-      next(
-        fromMultipart
-          ? new HttpError(
-              400,
-              'upload_refused',
-              `The upload could not be read: ${(error as Error).message}.`,
-            )
-          : error,
-      )
+    if (error instanceof HttpError) {
+      next(error)
       return
     }
-    const messages: Record<string, [number, string]> = {
-      LIMIT_FILE_SIZE: [413, `A file is larger than the ${maxMegabytes} MB limit.`],
-      LIMIT_FILE_COUNT: [400, 'At most 20 files can be uploaded at once.'],
-      LIMIT_UNEXPECTED_FILE: [
-        400,
-        `Files must be sent in the multipart field "file" (got "${error.field ?? ''}").`,
-      ],
-      LIMIT_FIELD_COUNT: [400, 'Too many form fields.'],
+    if (error instanceof multer.MulterError) {
+      const [status, message] = multerProblem(error, limits)
+      next(new HttpError(status, status === 413 ? 'too_large' : 'upload_refused', message))
+      return
     }
-    const [status, message] = messages[error.code] ?? [400, `Upload refused: ${error.message}`]
-    next(new HttpError(status, status === 413 ? 'too_large' : 'upload_refused', message))
+    // Multer marks every error it aborted an upload with (busboy's "Unexpected end of form",
+    // a malformed part header): the client sent a broken body, not a server fault.
+    const fromMultipart = typeof error === 'object' && error !== null && 'storageErrors' in error
+    next(fromMultipart ? new HttpError(400, 'upload_refused', multipartProblem(error)) : error)
   }
 }

@@ -17,12 +17,18 @@ export interface VisitsRouterOptions {
   store: FileStore
   uploadTmpDir: string
   uploadMaxMb: number
+  /** All files of one upload request together, in megabytes. */
+  uploadRequestMaxMb: number
   /** Uploads in flight at once; more are answered 503 with Retry-After. */
   uploadQueueLimit: number
 }
 
 export function visitsRouter(db: Db, options: VisitsRouterOptions): Router {
   const router = Router()
+  const uploadLimits = {
+    fileMaxMb: options.uploadMaxMb,
+    requestMaxMb: options.uploadRequestMaxMb,
+  }
 
   router.get(
     '/:id',
@@ -63,7 +69,7 @@ export function visitsRouter(db: Db, options: VisitsRouterOptions): Router {
       await loadVisibleVisit(db, actorOf(req), res.locals.params.id)
       next()
     },
-    filmUpload(options.uploadTmpDir, options.uploadMaxMb),
+    filmUpload(options.uploadTmpDir, uploadLimits),
     async (req, res) => {
       const files = uploadsOf(req.files)
       const parsed = uploadFields.safeParse(req.body ?? {})
@@ -81,6 +87,6 @@ export function visitsRouter(db: Db, options: VisitsRouterOptions): Router {
     },
   )
 
-  router.use(uploadErrorHandler(options.uploadMaxMb))
+  router.use(uploadErrorHandler(uploadLimits))
   return router
 }

@@ -456,6 +456,44 @@ describe('broken uploads and missing files', () => {
       .send(body)
     expect(res.status).toBe(400)
     expect(res.body.error.code).toBe('upload_refused')
+    // Our words, never busboy's ("Unexpected end of form").
+    expect(res.body.error.message).toMatch(/ended before its last part/)
+    expect(res.body.error.message).not.toMatch(/unexpected end/i)
+    expect(filesOnDisk()).toEqual([])
+  })
+
+  it('answers 413 in our words when the files of one upload add up past the request limit', async () => {
+    const limited = buildTestApp(db, {
+      UPLOAD_DIR: uploadDir,
+      UPLOAD_MAX_MB: '3',
+      UPLOAD_REQUEST_MAX_MB: '1',
+    }).app
+    // Two 0.6 MB files: each under the 3 MB file limit, together over the 1 MB request limit.
+    const part = Buffer.alloc(600 * 1024, 7)
+    const res = await request(limited)
+      .post(`/api/visits/${visitId}/images`)
+      .set('Cookie', users.fellow.cookie)
+      .attach('file', part, 'one.png')
+      .attach('file', part, 'two.png')
+    expect(res.status).toBe(413)
+    expect(res.body.error).toMatchObject({ code: 'too_large' })
+    expect(res.body.error.message).toMatch(/add up to 1 MB at most/)
+    expect(filesOnDisk()).toEqual([])
+    expect(await db(TABLES.images).count({ n: '*' })).toEqual([{ n: 0 }])
+  })
+
+  it('answers 400 in our words to an upload with more parts than 20 files and 50 fields', async () => {
+    const call = request(app)
+      .post(`/api/visits/${visitId}/images`)
+      .set('Cookie', users.fellow.cookie)
+    for (let i = 0; i < 50; i++) call.field(`extra${i}`, 'x')
+    for (let i = 0; i < 21; i++) call.attach('file', Buffer.from('x'), `f${i}.png`)
+    const res = await call
+    expect(res.status).toBe(400)
+    expect(res.body.error.code).toBe('upload_refused')
+    expect(res.body.error.message).toMatch(/too many parts|at most 20 files/i)
+    // multer's own texts ("Too many parts", "Too many files") never reach the client.
+    expect(res.body.error.message).not.toMatch(/^Too many/)
     expect(filesOnDisk()).toEqual([])
   })
 
