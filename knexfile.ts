@@ -13,6 +13,11 @@ export interface ConnectionOptions {
    * knex command line), whose statements may legitimately run long.
    */
   timeouts?: DbTimeouts | null
+  /**
+   * Which account connects: the application's (default), or the schema owner's for migrations,
+   * seeds and test housekeeping.
+   */
+  account?: 'application' | 'owner'
 }
 
 function connectionFor(database: string, options: ConnectionOptions = {}): Knex.Config {
@@ -23,8 +28,8 @@ function connectionFor(database: string, options: ConnectionOptions = {}): Knex.
     connection: {
       host: config.DB_HOST,
       port: options.port ?? config.DB_PORT,
-      user: config.DB_USER,
-      password: config.DB_PASSWORD,
+      user: options.account === 'owner' ? config.DB_OWNER_USER : config.DB_USER,
+      password: options.account === 'owner' ? config.DB_OWNER_PASSWORD : config.DB_PASSWORD,
       database,
       // Keep DATETIME values in UTC end to end.
       timezone: 'Z',
@@ -55,10 +60,11 @@ function connectionFor(database: string, options: ConnectionOptions = {}): Knex.
   }
 }
 
+// The knex command line migrates, so it connects as the schema owner.
 const knexConfig: Record<'development' | 'test' | 'production', Knex.Config> = {
-  development: connectionFor(config.DB_NAME),
-  test: connectionFor(config.DB_TEST_NAME),
-  production: connectionFor(config.DB_NAME),
+  development: connectionFor(config.DB_NAME, { account: 'owner' }),
+  test: connectionFor(config.DB_TEST_NAME, { account: 'owner' }),
+  production: connectionFor(config.DB_NAME, { account: 'owner' }),
 }
 
 export default knexConfig

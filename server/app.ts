@@ -12,6 +12,7 @@ import { authenticate } from './middleware/authenticate'
 import { errorHandler } from './middleware/error-handler'
 import { notFoundHandler } from './middleware/not-found'
 import { sameOriginWrites } from './middleware/same-origin'
+import { auditReads } from './middleware/audit-reads'
 import { accountRequestLimiter, authRouter } from './routes/auth'
 import { healthRouter } from './routes/health'
 import { patientsRouter } from './routes/patients'
@@ -124,6 +125,7 @@ export function createApp({
     }),
   )
   api.use(requireSession)
+  api.use(auditReads(db))
   api.use('/patients', patientsRouter(db))
   api.use('/patients', plansRouter(db))
   api.use(

@@ -30,6 +30,13 @@ const envSchema = z.object({
     .regex(/^[a-z0-9_]+$/)
     .default('endplate'),
   DB_PASSWORD: z.string().min(1),
+  // Owns the schema: runs migrations and grants the application user its rights table by table
+  // (SELECT and INSERT only on the audit trail). The API never connects as it.
+  DB_OWNER_USER: z
+    .string()
+    .regex(/^[a-z0-9_]+$/)
+    .default('endplate_owner'),
+  DB_OWNER_PASSWORD: z.string().min(1),
   DB_DATA_DIR: z.string().default('.data/mariadb'),
   DB_QUERY_TIMEOUT_MS: z.coerce.number().int().min(500).max(600_000).default(5_000),
   JWT_SECRET: z.string().min(16, 'JWT_SECRET must be at least 16 characters'),

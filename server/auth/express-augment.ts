@@ -8,6 +8,8 @@ declare global {
       user?: SessionUser
       /** The sign-in this request belongs to; its expiry is the current token's. */
       session?: { id: string; expiresAt: Date }
+      /** Set once the request's read has been audited on arrival (middleware/audit-reads.ts). */
+      readAudited?: { recorded: boolean }
     }
   }
 }

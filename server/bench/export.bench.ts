@@ -228,7 +228,7 @@ export async function run(): Promise<void> {
       )
     }
     // The bench audits its exports like any other; the trail of a scratch database is not kept.
-    await db(TABLES.auditEvents).delete()
+    await truncateAllTables(db)
   } finally {
     await db.destroy()
   }

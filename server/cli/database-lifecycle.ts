@@ -1,15 +1,24 @@
 import knexFactory from 'knex'
 import type { AppConfig } from '../config'
 import { createDb, type Db } from '../db/knex'
-import { TABLES_CHILDREN_FIRST } from '../db/tables'
-import { ensureDatabases, mariaDbPaths, startMariaDb, stopMariaDb } from './mariadb'
+import { TABLES, TABLES_CHILDREN_FIRST } from '../db/tables'
+import { GENESIS_HASH } from '../db/audit-chain'
+import { grantApplicationAccess } from '../db/application-grants'
+import { config as appConfig } from '../config'
+import {
+  databaseAccounts,
+  ensureDatabases,
+  mariaDbPaths,
+  startMariaDb,
+  stopMariaDb,
+} from './mariadb'
 
 export interface RunningDatabase {
   /** Stops MariaDB when this process started it; leaves a reused server running. */
   release(): Promise<void>
 }
 
-/** Starts (or reuses) the project's MariaDB and makes sure the given databases and user exist. */
+/** Starts (or reuses) the project's MariaDB and makes sure the given databases and accounts exist. */
 export async function bringUpDatabase(
   config: AppConfig,
   databases: string[],
@@ -21,7 +30,7 @@ export async function bringUpDatabase(
       ? `MariaDB started on 127.0.0.1:${config.DB_PORT} (data in ${config.DB_DATA_DIR}).`
       : `Reusing the MariaDB already running on 127.0.0.1:${config.DB_PORT}.`,
   )
-  await ensureDatabases(paths, databases, config.DB_USER, config.DB_PASSWORD)
+  await ensureDatabases(paths, databases, databaseAccounts(config))
   return {
     async release() {
       if (!startedHere) return
@@ -31,16 +40,20 @@ export async function bringUpDatabase(
   }
 }
 
-/** Runs every pending migration on one database. */
+/**
+ * Runs every pending migration on one database (as the schema owner), then grants the
+ * application account its rights on every table, those of new migrations included.
+ */
 export async function migrateLatest(db: Db): Promise<void> {
   const [, applied] = (await db.migrate.latest()) as [number, string[]]
   if (applied.length > 0) console.log(`Applied ${applied.length} migration(s).`)
+  await grantApplicationAccess(db, appConfig.DB_USER)
 }
 
-/** Opens a database, runs a function, and always closes the pool. */
+/** Opens a database as the schema owner, runs a function, and always closes the pool. */
 export async function withDb<T>(database: string, work: (db: Db) => Promise<T>): Promise<T> {
   // Maintenance (migrations, seeds): no statement timeout, a migration may run long.
-  const db = createDb(database, { timeouts: null })
+  const db = createDb(database, { timeouts: null, account: 'owner' })
   try {
     return await work(db)
   } finally {
@@ -58,8 +71,8 @@ export async function openMigratedDatabase(config: AppConfig, name: string): Pro
     connection: {
       host: config.DB_HOST,
       port: config.DB_PORT,
-      user: config.DB_USER,
-      password: config.DB_PASSWORD,
+      user: config.DB_OWNER_USER,
+      password: config.DB_OWNER_PASSWORD,
     },
   })
   try {
@@ -69,21 +82,35 @@ export async function openMigratedDatabase(config: AppConfig, name: string): Pro
   } finally {
     await admin.destroy()
   }
-  const maintenance = createDb(name, { timeouts: null })
+  const maintenance = createDb(name, { timeouts: null, account: 'owner' })
   try {
     await maintenance.migrate.latest()
+    await grantApplicationAccess(maintenance, config.DB_USER)
   } finally {
     await maintenance.destroy()
   }
   return createDb(name)
 }
 
-/** Empties every table, children first: a scratch database back to nothing. */
+/**
+ * Empties every table, children first: a scratch database back to nothing. The application
+ * account may not empty the audit trail, so this connects as the schema owner to the database
+ * of the given pool.
+ */
 export async function truncateAllTables(db: Db): Promise<void> {
-  await db.raw('SET FOREIGN_KEY_CHECKS = 0')
+  const { database, port } = db.client.config.connection as { database: string; port: number }
+  const owner = createDb(database, { timeouts: null, account: 'owner', port })
   try {
-    for (const table of TABLES_CHILDREN_FIRST) await db.raw(`TRUNCATE TABLE \`${table}\``)
+    await owner.transaction(async (trx) => {
+      await trx.raw('SET FOREIGN_KEY_CHECKS = 0')
+      try {
+        for (const table of TABLES_CHILDREN_FIRST) await trx.raw(`TRUNCATE TABLE \`${table}\``)
+        await trx(TABLES.auditChainHead).insert({ id: 1, last_id: 0, last_hash: GENESIS_HASH })
+      } finally {
+        await trx.raw('SET FOREIGN_KEY_CHECKS = 1')
+      }
+    })
   } finally {
-    await db.raw('SET FOREIGN_KEY_CHECKS = 1')
+    await owner.destroy()
   }
 }

@@ -3,11 +3,12 @@ import { existsSync, readFileSync, writeFileSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { projectRoot } from '../project-root'
 
-const PLACEHOLDER_KEYS = ['JWT_SECRET', 'DB_PASSWORD'] as const
+const PLACEHOLDER_KEYS = ['JWT_SECRET', 'DB_PASSWORD', 'DB_OWNER_PASSWORD'] as const
 
 /**
  * Writes .env from .env.example on first start, with random values for the session secret and the
- * database password, and fills those two in when an existing .env lacks them. Must run before
+ * database passwords, and fills those in when an existing .env lacks them (an .env written
+ * before the schema owner account existed gets DB_OWNER_PASSWORD added). Must run before
  * server/config is imported, since that module reads .env once.
  */
 export function ensureEnvFile(): void {
@@ -27,6 +28,6 @@ export function ensureEnvFile(): void {
   }
   if (changed) {
     writeFileSync(envPath, text, { mode: 0o600 })
-    console.log('Wrote .env with a random session secret and database password.')
+    console.log('Wrote .env with a random session secret and database passwords.')
   }
 }

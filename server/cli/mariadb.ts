@@ -127,29 +127,65 @@ function sqlString(value: string): string {
   return `'${value.replace(/\\/g, '\\\\').replace(/'/g, "\\'")}'`
 }
 
+export interface DatabaseAccount {
+  user: string
+  password: string
+}
+
+/** The two accounts the project creates: the API's, and the schema owner's that migrates. */
+export interface DatabaseAccounts {
+  application: DatabaseAccount
+  owner: DatabaseAccount
+}
+
+export function databaseAccounts(config: {
+  DB_USER: string
+  DB_PASSWORD: string
+  DB_OWNER_USER: string
+  DB_OWNER_PASSWORD: string
+}): DatabaseAccounts {
+  return {
+    application: { user: config.DB_USER, password: config.DB_PASSWORD },
+    owner: { user: config.DB_OWNER_USER, password: config.DB_OWNER_PASSWORD },
+  }
+}
+
+/** Runs SQL as MariaDB's root over the project's socket (set-up, and tests that play an intruder). */
+export async function runRootSql(paths: MariaDbPaths, sql: string): Promise<void> {
+  await run('mariadb', [...rootClientArgs(paths), '-e', sql])
+}
+
 /**
- * Creates the databases (utf8mb4_unicode_ci) and the application user for 127.0.0.1 with the
- * given password. Idempotent: an existing database keeps its data. The user may also create
- * databases named `<prefix>_w<n>` (one per test worker).
+ * Creates the databases (utf8mb4_unicode_ci) and both accounts for 127.0.0.1 with the given
+ * passwords. Idempotent: an existing database keeps its data. The owner holds every right on
+ * databases named like the given ones (`<prefix>_w<n>`, one per test worker, included), with
+ * the right to grant; the application account gets no database-wide right here: migrations
+ * grant it table by table (server/db/application-grants.ts). A database-wide grant left by an
+ * earlier version of the scripts is removed, since it would include UPDATE and DELETE on the
+ * audit trail.
  */
 export async function ensureDatabases(
   paths: MariaDbPaths,
   databases: string[],
-  user: string,
-  password: string,
+  accounts: DatabaseAccounts,
 ): Promise<void> {
+  const { application, owner } = accounts
+  const account = (user: string) => `${sqlString(user)}@'127.0.0.1'`
   const statements = [
     ...databases.map(
       (name) =>
         `CREATE DATABASE IF NOT EXISTS \`${name}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci;`,
     ),
-    `CREATE USER IF NOT EXISTS ${sqlString(user)}@'127.0.0.1' IDENTIFIED BY ${sqlString(password)};`,
-    `ALTER USER ${sqlString(user)}@'127.0.0.1' IDENTIFIED BY ${sqlString(password)};`,
+    ...[application, owner].flatMap(({ user, password }) => [
+      `CREATE USER IF NOT EXISTS ${account(user)} IDENTIFIED BY ${sqlString(password)};`,
+      `ALTER USER ${account(user)} IDENTIFIED BY ${sqlString(password)};`,
+    ]),
     ...databases.map(
       (name) =>
-        `GRANT ALL PRIVILEGES ON \`${name.replace(/_/g, '\\_')}%\`.* TO ${sqlString(user)}@'127.0.0.1';`,
+        `GRANT ALL PRIVILEGES ON \`${name.replace(/_/g, '\\_')}%\`.* TO ${account(owner.user)} WITH GRANT OPTION;`,
     ),
+    `DELETE FROM mysql.db WHERE User = ${sqlString(application.user)} AND Host = '127.0.0.1';`,
     'FLUSH PRIVILEGES;',
   ]
-  await run('mariadb', [...rootClientArgs(paths), '-e', statements.join(' ')])
+  await runRootSql(paths, statements.join(' '))
 }

@@ -16,6 +16,8 @@ export const TABLES = {
   roundRaters: 'round_raters',
   roundAssignments: 'round_assignments',
   auditEvents: 'audit_events',
+  /** One row: the id and hash of the newest audit event, locked while the next is appended. */
+  auditChainHead: 'audit_chain_head',
   siteSettings: 'site_settings',
   mailOutbox: 'mail_outbox',
   revokedSessions: 'revoked_sessions',
@@ -32,6 +34,7 @@ export const TABLES_CHILDREN_FIRST = [
   TABLES.revokedSessions,
   TABLES.mailOutbox,
   TABLES.auditEvents,
+  TABLES.auditChainHead,
   TABLES.roundAssignments,
   TABLES.roundRaters,
   TABLES.roundImages,

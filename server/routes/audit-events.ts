@@ -1,6 +1,6 @@
 import { Router } from 'express'
 import type { Db } from '../db/knex'
-import { readAuditTrail } from '../services/audit-trail'
+import { checkAuditChain, readAuditTrail } from '../services/audit-trail'
 import { requirePermission } from '../middleware/require-permission'
 import { validate } from '../middleware/validate'
 import { auditQuery } from '../schemas/audit'
@@ -15,5 +15,8 @@ export function auditEventsRouter(db: Db): Router {
       res.json(await readAuditTrail(db, res.locals.query))
     },
   )
+  router.get('/chain', requirePermission('audit:read'), async (_req, res) => {
+    res.json(await checkAuditChain(db))
+  })
   return router
 }

@@ -1,6 +1,7 @@
 import type { Db } from '../db/knex'
 import { listAuditEvents } from '../db/audit'
-import type { AuditEvent, Page } from '../../shared/types/api'
+import { verifyAuditChain } from '../db/audit-chain'
+import type { AuditChainStatus, AuditEvent, Page } from '../../shared/types/api'
 
 /** The audit trail for administrators, newest first. Summaries carry ids and study codes only. */
 export async function readAuditTrail(
@@ -8,4 +9,9 @@ export async function readAuditTrail(
   filter: { entity?: string; entityId?: string; offset: number; limit: number },
 ): Promise<Page<AuditEvent>> {
   return listAuditEvents(db, filter)
+}
+
+/** Recomputes the whole chain (server/db/audit-chain.ts); administrators call it on demand. */
+export async function checkAuditChain(db: Db): Promise<AuditChainStatus> {
+  return verifyAuditChain(db)
 }

@@ -7,6 +7,8 @@ import { roleCan } from '../../shared/types/permissions'
 export interface Actor {
   user: SessionUser
   ip: string | null
+  /** Set when the request's read was audited on arrival: a service's own 'view' is then left out. */
+  readAudited?: { recorded: boolean }
 }
 
 /** Whether the actor may see names, record numbers and dates (else de-identified data only). */
@@ -44,6 +46,8 @@ export async function audit(
   entityId: string | number | null,
   summary: string,
 ): Promise<void> {
+  // The request's read was recorded already (server/middleware/audit-reads.ts).
+  if (action === 'view' && actor?.readAudited?.recorded) return
   await insertAuditEvent(db, {
     userId: actor?.user.id ?? null,
     action,

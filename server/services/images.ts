@@ -155,6 +155,15 @@ export async function uploadImages(
       }
     }
     if (mismatches.length > 0 && !request.confirmPatientMismatch) {
+      // The answer quotes the header's name, id and birth date back: a read of identity.
+      await audit(
+        db,
+        actor,
+        'view',
+        'visit',
+        visitId,
+        `Shown the DICOM header identity of ${mismatches.length} file(s) not matching patient ${patient.studyCode}`,
+      )
       throw new HttpError(
         409,
         'patient_mismatch',

@@ -158,6 +158,17 @@ export interface AuditEvent {
   summary: string
 }
 
+/** Whether the audit trail's hash chain still holds, and where it first breaks. */
+export interface AuditChainStatus {
+  intact: boolean
+  /** Events that checked out, oldest first, before the break (all of them when intact). */
+  checked: number
+  firstBreak: {
+    id: number
+    reason: 'content-changed' | 'link-broken' | 'event-missing' | 'head-mismatch'
+  } | null
+}
+
 /** A film as the API returns it. Identifying DICOM attributes are left out for researchers. */
 export interface ImageRecord {
   id: number

@@ -1,4 +1,4 @@
-import type { AuditEvent, Page, UserSummary } from '@shared/types/api'
+import type { AuditChainStatus, AuditEvent, Page, UserSummary } from '@shared/types/api'
 import type { Invitation, InvitationInput, UserPatch } from '@shared/types/accounts'
 import type { CaughtMail, UndeliveredMail } from '@shared/types/mail'
 import { http, queryString } from './http'
@@ -9,6 +9,8 @@ export const patchUser = (id: number, patch: UserPatch) =>
   http.patch<UserSummary>(`/users/${id}`, patch)
 export const listAuditEvents = (offset: number, limit: number) =>
   http.get<Page<AuditEvent>>(`/audit-events${queryString({ offset, limit })}`)
+/** Recomputes the audit trail's hash chain on the server. */
+export const checkAuditChain = () => http.get<AuditChainStatus>('/audit-events/chain')
 
 export const listInvitations = () => http.get<Invitation[]>('/invitations')
 export const createInvitation = (input: InvitationInput) =>

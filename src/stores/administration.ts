@@ -1,11 +1,12 @@
 import { ref } from 'vue'
 import { defineStore } from 'pinia'
-import type { AuditEvent, UserSummary } from '@shared/types/api'
+import type { AuditChainStatus, AuditEvent, UserSummary } from '@shared/types/api'
 import type { Invitation, InvitationInput, UserPatch } from '@shared/types/accounts'
 import type { CaughtMail, UndeliveredMail } from '@shared/types/mail'
 import {
   createInvitation,
   listAuditEvents,
+  checkAuditChain,
   listCaughtMail,
   listInvitations,
   listUndeliveredMail,
@@ -28,6 +29,8 @@ export const useAdministrationStore = defineStore('administration', () => {
   /** False when the server runs without the local mail catcher (GET /api/mail is 404). */
   const mailCatcherOn = ref(true)
   const auditEvents = ref<AuditEvent[]>([])
+  const auditChain = ref<AuditChainStatus | null>(null)
+  const checkingChain = ref(false)
   const auditTotal = ref(0)
   const loading = ref(false)
   const error = ref<string | null>(null)
@@ -79,6 +82,14 @@ export const useAdministrationStore = defineStore('administration', () => {
     loading.value = false
   }
 
+  async function verifyAuditChain(): Promise<void> {
+    checkingChain.value = true
+    await guarded(async () => {
+      auditChain.value = await checkAuditChain()
+    })
+    checkingChain.value = false
+  }
+
   /** Throws the server's refusal (e.g. the last administrator) for the caller to show. */
   async function updateUser(id: number, patch: UserPatch): Promise<void> {
     const updated = await patchUser(id, patch)
@@ -111,6 +122,9 @@ export const useAdministrationStore = defineStore('administration', () => {
     mailCatcherOn,
     auditEvents,
     auditTotal,
+    auditChain,
+    checkingChain,
+    verifyAuditChain,
     loading,
     error,
     loadUsers,

@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import request from 'supertest'
 import type { Db } from '../../server/db/knex'
 import { createDb } from '../../server/db/knex'
+import { migrateLatest } from '../../server/cli/database-lifecycle'
 import type { AppConfig } from '../../server/config'
 import type { Role } from '../../shared/types/domain'
 import { buildTestApp, createUsersForEveryRole, type TestUser } from '../support/test-app'
@@ -19,8 +20,12 @@ let patientId: number
 
 beforeAll(async () => {
   mariadb = await startPrivateMariaDb()
-  const maintenance = createDb(mariadb.database, { port: mariadb.port, timeouts: null })
-  await maintenance.migrate.latest()
+  const maintenance = createDb(mariadb.database, {
+    port: mariadb.port,
+    timeouts: null,
+    account: 'owner',
+  })
+  await migrateLatest(maintenance)
   await maintenance.destroy()
   db = mariadb.openDb()
   let app

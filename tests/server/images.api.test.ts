@@ -143,6 +143,12 @@ describe('POST /api/visits/:id/images', () => {
     expect(refused.status).toBe(409)
     expect(refused.body.error.code).toBe('patient_mismatch')
     expect(refused.body.error.details.mismatches[0]).toMatch(/name is "BRACKENRIDGE, TOMAS"/)
+    // The answer echoes the header's identity: that read is audited, without the identity itself.
+    const shown = await db(TABLES.auditEvents).where({ entity: 'visit', action: 'view' })
+    expect(shown).toHaveLength(1)
+    expect(shown[0]).toMatchObject({ user_id: users.fellow.id, entity_id: String(visitId) })
+    expect(shown[0].summary).toMatch(/header identity of 1 file/)
+    expect(shown[0].summary).not.toMatch(/BRACKENRIDGE/)
     expect(await db(TABLES.images).count({ c: '*' })).toEqual([{ c: 0 }])
     expect(filesOnDisk()).toEqual([])
     const confirmed = await upload(users.fellow, otherPatientFiles.dicom, 'other.dcm', {

@@ -4,11 +4,11 @@ import request from 'supertest'
 import type { Express } from 'express'
 import { createApp } from '../../server/app'
 import { createLogger } from '../../server/logger'
-import type { Db } from '../../server/db/knex'
+import { createDb, type Db } from '../../server/db/knex'
 import type { AppConfig } from '../../server/config'
 import { TABLES } from '../../server/db/tables'
 import type { Role } from '../../shared/types/domain'
-import { openTestDb, truncateAll } from '../support/test-db'
+import { openTestDb, truncateAll, workerDatabaseName } from '../support/test-db'
 import { createUsersForEveryRole, testConfig, type TestUser } from '../support/test-app'
 
 let db: Db
@@ -54,7 +54,9 @@ const patient = {
 describe('the application log on an unexpected database error', () => {
   it('holds neither the SQL values nor the request body of a patient write', async () => {
     // A CHECK constraint makes MariaDB refuse every insert: an error no handler expects (a 500).
-    await db.raw(
+    // Changing the schema is the owner's right, not the application account's.
+    const owner = createDb(workerDatabaseName(), { timeouts: null, account: 'owner' })
+    await owner.raw(
       `ALTER TABLE \`${TABLES.patients}\` ADD CONSTRAINT refuse_for_log_test CHECK (CHAR_LENGTH(family_name) > 1000)`,
     )
     try {
@@ -65,7 +67,8 @@ describe('the application log on an unexpected database error', () => {
       expect(res.status).toBe(500)
       expect(JSON.stringify(res.body)).not.toContain('Quillfeather')
     } finally {
-      await db.raw(`ALTER TABLE \`${TABLES.patients}\` DROP CONSTRAINT refuse_for_log_test`)
+      await owner.raw(`ALTER TABLE \`${TABLES.patients}\` DROP CONSTRAINT refuse_for_log_test`)
+      await owner.destroy()
     }
     const log = logLines.join('')
     // The error was logged (with its error number: 4025, a failed CHECK constraint in MariaDB), so the absence below is not an empty log.

@@ -80,6 +80,11 @@ const ROUTES: RouteCase[] = [
   },
   {
     method: 'get',
+    path: () => '/api/audit-events/chain',
+    expect: { anonymous: 401, admin: 200, surgeon: 403, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'get',
     path: () => '/api/health/details',
     expect: { anonymous: 401, admin: 200, surgeon: 403, fellow: 403, researcher: 403 },
   },

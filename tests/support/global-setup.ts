@@ -7,11 +7,11 @@ import { ensureEnvFile } from '../../server/cli/env-file'
 export default async function setup(): Promise<() => Promise<void>> {
   ensureEnvFile()
   const { config } = await import('../../server/config')
-  const { ensureDatabases, mariaDbPaths, startMariaDb, stopMariaDb } =
+  const { databaseAccounts, ensureDatabases, mariaDbPaths, startMariaDb, stopMariaDb } =
     await import('../../server/cli/mariadb')
   const paths = mariaDbPaths(config.dataDirAbsolute)
   const startedHere = await startMariaDb(paths, config.DB_PORT)
-  await ensureDatabases(paths, [config.DB_TEST_NAME], config.DB_USER, config.DB_PASSWORD)
+  await ensureDatabases(paths, [config.DB_TEST_NAME], databaseAccounts(config))
   return async () => {
     if (startedHere) await stopMariaDb(paths)
   }

@@ -5,6 +5,7 @@ import { join } from 'node:path'
 import { config } from '../../server/config'
 import { createDb, type Db } from '../../server/db/knex'
 import {
+  databaseAccounts,
   ensureDatabases,
   mariaDbPaths,
   startMariaDb,
@@ -49,7 +50,7 @@ export async function startPrivateMariaDb(): Promise<PrivateMariaDb> {
   const port = await freePort()
   const database = 'endplate_private'
   await startMariaDb(paths, port)
-  await ensureDatabases(paths, [database], config.DB_USER, config.DB_PASSWORD)
+  await ensureDatabases(paths, [database], databaseAccounts(config))
   const pid = () => Number(readFileSync(paths.pidFile, 'utf8').trim())
   let paused = false
   const server: PrivateMariaDb = {
