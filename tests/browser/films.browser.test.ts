@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { BrowserContext, Page } from 'playwright-core'
 import type { Db } from '../../server/db/knex'
 import { DEMO_USERS } from '../../server/demo/demo-data'
-import { openTestDb, truncateAll } from '../support/test-db'
+import { openTestDb, seedDemo, truncateAll } from '../support/test-db'
 import {
   launchBrowser,
   screenshotPath,
@@ -19,7 +19,7 @@ let server: { url: string; close(): Promise<void> }
 beforeAll(async () => {
   db = await openTestDb()
   await truncateAll(db)
-  await db.seed.run()
+  await seedDemo(db)
   server = await startAppServer(db)
   browser = await launchBrowser()
 })

@@ -8,7 +8,7 @@ import { DEMO_USERS } from '../../server/demo/demo-data'
 import { templateLandmarks, type TemplateOptions } from '../../shared/readings/templates'
 import type { ReadingTemplate } from '../../shared/types/domain'
 import type { PixelPoint } from '../../shared/types/landmarks'
-import { openTestDb, truncateAll } from '../support/test-db'
+import { openTestDb, seedDemo, truncateAll } from '../support/test-db'
 import { testConfig } from '../support/test-app'
 import {
   launchBrowser,
@@ -71,7 +71,7 @@ beforeAll(async () => {
   db = await openTestDb()
   await truncateAll(db)
   // The demo clinic without its films; the hybrid patient comes with the demo plan.
-  await db.seed.run()
+  await seedDemo(db)
   server = await startAppServer(db)
   browser = await launchBrowser()
   const config = testConfig()

@@ -4,7 +4,7 @@ import type { BrowserContext, Page } from 'playwright-core'
 import type { Db } from '../../server/db/knex'
 import { TABLES } from '../../server/db/tables'
 import { DEMO_PATIENTS, DEMO_STUDY, DEMO_USERS } from '../../server/demo/demo-data'
-import { openTestDb, truncateAll } from '../support/test-db'
+import { openTestDb, seedDemo, truncateAll } from '../support/test-db'
 import {
   launchBrowser,
   screenshotPath,
@@ -23,7 +23,7 @@ const studyPatient = DEMO_PATIENTS.find((patient) => patient.inStudy)!
 beforeAll(async () => {
   db = await openTestDb()
   await truncateAll(db)
-  await db.seed.run()
+  await seedDemo(db)
   // One submitted reading on a study patient's film, so the export has a row to show.
   const { app, config } = buildTestApp(db)
   const fellow = await createTestUser(db, config, 'fellow', 'export-fellow@test.example')

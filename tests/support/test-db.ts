@@ -1,5 +1,5 @@
 import { config } from '../../server/config'
-import type { Db } from '../../server/db/knex'
+import { createDb, type Db } from '../../server/db/knex'
 import { openMigratedDatabase, truncateAllTables } from '../../server/cli/database-lifecycle'
 
 /**
@@ -19,3 +19,17 @@ export async function openTestDb(): Promise<Db> {
 
 /** Empties every table, children first, so each test starts from nothing. */
 export const truncateAll = truncateAllTables
+
+/**
+ * Runs the demo seed on the pool's database as the schema owner: the seed empties every table
+ * first, the audit trail included, which the application account may not.
+ */
+export async function seedDemo(db: Db): Promise<void> {
+  const { database } = db.client.config.connection as { database: string }
+  const owner = createDb(database, { timeouts: null, account: 'owner' })
+  try {
+    await owner.seed.run()
+  } finally {
+    await owner.destroy()
+  }
+}
