@@ -10,7 +10,7 @@ const AUDITED_READS: Array<[pattern: RegExp, entity: string]> = [
   [/^\/visits\/(\d+)\/images$/, 'visit'],
   [/^\/images\/(\d+)\/files\/[a-z-]+$/, 'image'],
   [/^\/images\/(\d+)\/readings$/, 'image'],
-  [/^\/readings\/(\d+)(?:\/[a-z-.]+)?$/, 'reading'],
+  [/^\/readings\/(\d+)$/, 'reading'],
   [/^\/readings$/, 'reading'],
   [/^\/patients\/(\d+)\/plan$/, 'plan'],
 ]
@@ -20,6 +20,8 @@ function auditedRead(req: Request): { entity: string; entityId: string | null } 
     const match = pattern.exec(req.path)
     if (match) return { entity, entityId: match[1] ?? null }
   }
+  // Measurement exports are audited by their service with the filter and row count.
+  if (/^\/exports\/measurements\./.test(req.path)) return null
   if (req.user?.role === 'researcher') {
     const [, entity = 'api', id] = /^\/([a-z-]+)(?:\/(\d+))?/.exec(req.path) ?? []
     return { entity: entity.slice(0, 40), entityId: id ?? null }

@@ -228,7 +228,14 @@ describe('GET /api/exports/measurements.csv', () => {
       users.researcher,
       `/api/exports/measurements.csv?studyId=${studyId}&visitKind=pre-op`,
     )
-    const [event] = await db(TABLES.auditEvents).where({ action: 'export' })
+    // The export is audited once the last row is written, just after the download ends.
+    let [event] = await db(TABLES.auditEvents).where({ action: 'export' })
+    for (let wait = 0; !event && wait < 40; wait++) {
+      await new Promise((resolveWait) => setTimeout(resolveWait, 50))
+      ;[event] = await db(TABLES.auditEvents).where({ action: 'export' })
+    }
+    // One event for the request: the export's own, no separate read event.
+    expect(await db(TABLES.auditEvents).where({ user_id: users.researcher.id })).toHaveLength(1)
     expect(event).toMatchObject({
       user_id: users.researcher.id,
       entity: 'measurements',

@@ -216,7 +216,9 @@ describe('GET /api/readings/:id/report.pdf', () => {
     const { reading } = await slipReading()
     await pdf(`/api/readings/${reading.id}/report.pdf`)
     await pdf(`/api/readings/${reading.id}/report.pdf`, users.researcher)
-    const events = await db(TABLES.auditEvents).where({ entity: 'reading', action: 'view' })
+    const events = await db(TABLES.auditEvents)
+      .where({ entity: 'reading', action: 'view' })
+      .where('summary', 'like', 'Viewed the PDF report%')
     expect(events.map((event) => [event.user_id, event.summary])).toEqual([
       [
         users.surgeon.id,
@@ -224,6 +226,11 @@ describe('GET /api/readings/:id/report.pdf', () => {
           new RegExp(`^Viewed the PDF report of reading ${reading.id} of patient EP-`),
         ),
       ],
+    ])
+    // Every researcher read is audited too, once per request.
+    const researcherReads = await db(TABLES.auditEvents).where({ user_id: users.researcher.id })
+    expect(researcherReads.map((event) => event.summary)).toEqual([
+      `Requested /api/readings/${reading.id}/report.pdf (researcher)`,
     ])
     expect((await pdf('/api/readings/999999/report.pdf')).status).toBe(404)
     expect((await pdf('/api/readings/abc/report.pdf')).status).toBe(400)
