@@ -151,6 +151,9 @@ export async function reportReading(db: Db, input: ReportReadingInput): Promise<
         }
       : null,
     motion: reading.results.motion?.segments ?? null,
+    instabilityCriterion: reading.results.computedWith?.instabilityCriterion,
+    imageRightSide: reading.results.centring?.imageRightSide,
+    centringThresholdMm: reading.results.centring?.thresholdMm,
     subsidence: {
       results: reading.results.subsidence,
       baselineReadingId: reading.results.subsidenceBaselineReadingId,
