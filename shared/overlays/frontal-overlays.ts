@@ -10,8 +10,10 @@ import { overlayLine } from './overlay-primitives'
  * §11 landmarks): each segment's endplate lines U.il → U.ir and W.sl → W.sr, the implant's line
  * tdr.l → tdr.r, the body midline (dashed, through the mean m of the four corners, at right
  * angles to e = unit((U.ir − U.il) + (W.sr − W.sl)), as long as the disc is high), a ring at the
- * implant's centre and at the spinous process tip, and the engine's lateral offset as the label
- * (its sign says the image side: positive toward the image's right edge).
+ * implant's centre and at the spinous process tip. Two labels carry the engine's results: the
+ * lateral offset in mm and % of the endplate width beside the endplates' right ends (its sign
+ * says the image side: positive toward the image's right edge; mm only on a calibrated film),
+ * and the implant's coronal tilt beside the implant's left end.
  */
 export function frontalOverlayShapes(
   points: OverlayPoints,
@@ -71,15 +73,27 @@ export function frontalOverlayShapes(
       ),
     )
     const offset = results?.frontal?.[segment]
-    const text =
-      offset?.lateralOffsetMm != null
-        ? overlayNumberText(Math.abs(offset.lateralOffsetMm), 1, 'mm')
-        : overlayNumberText(
-            offset?.lateralOffsetPercent != null ? Math.abs(offset.lateralOffsetPercent) : null,
-            1,
-            '%',
-          )
+    const magnitude = (value: number | null | undefined) =>
+      value === null || value === undefined ? null : Math.abs(value)
+    const text = [
+      overlayNumberText(magnitude(offset?.lateralOffsetMm), 1, 'mm'),
+      overlayNumberText(magnitude(offset?.lateralOffsetPercent), 1, '%'),
+    ]
+      .filter((part): part is string => part !== null)
+      .join(' / ')
     const signed = offset?.lateralOffsetMm ?? offset?.lateralOffsetPercent ?? null
+    const tilt = overlayNumberText(offset?.implantTiltDeg, 1, '°')
+    if (tl && tr && tilt) {
+      const left = tl[0] <= tr[0] ? tl : tr
+      shapes.push({
+        kind: 'label',
+        id: `frontal-tilt-label-${segment}`,
+        category: 'implant',
+        at: [left[0] - length * 0.08, left[1]],
+        text: `tilt ${tilt}`,
+        anchor: 'end',
+      })
+    }
     if (text && signed !== null) {
       const towards =
         Math.abs(signed) < 0.05 ? 'centred' : signed > 0 ? 'to image right' : 'to image left'

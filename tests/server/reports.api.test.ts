@@ -325,8 +325,9 @@ describe('GET /api/visits/:id/report.pdf', () => {
     const text = (await pdfPageTexts(res.body as Buffer)).join('\n')
     expect(text).toContain('Implant centring (AP)')
     // The overlay labels carry the engine's offsets (shared/overlays frontal builder).
-    expect(text).toMatch(/L3-L4 offset \d+\.\d mm (to image (left|right)|centred)/)
-    expect(text).toMatch(/L4-L5 offset \d+\.\d mm (to image (left|right)|centred)/)
+    expect(text).toMatch(/L3-L4 offset \d+\.\d mm \/ \d+\.\d % (to image (left|right)|centred)/)
+    expect(text).toMatch(/L4-L5 offset \d+\.\d mm \/ \d+\.\d % (to image (left|right)|centred)/)
+    expect(text).toMatch(/tilt \d+\.\d°/)
     expect(text).toContain('Offset from midline')
   })
   it('reports the frontal changes against the previous visit: offset, tilt and coronal angle', async () => {
