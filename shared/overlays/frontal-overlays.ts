@@ -84,12 +84,14 @@ export function frontalOverlayShapes(
     const signed = offset?.lateralOffsetMm ?? offset?.lateralOffsetPercent ?? null
     const tilt = overlayNumberText(offset?.implantTiltDeg, 1, '°')
     if (tl && tr && tilt) {
+      // Left of the leftmost corner of the segment, so the text never covers a landmark.
       const left = tl[0] <= tr[0] ? tl : tr
+      const leftmostX = Math.min(left[0], uil[0], uir[0], wsl[0], wsr[0])
       shapes.push({
         kind: 'label',
         id: `frontal-tilt-label-${segment}`,
         category: 'implant',
-        at: [left[0] - length * 0.08, left[1]],
+        at: [leftmostX - length * 0.08, left[1]],
         text: `tilt ${tilt}`,
         anchor: 'end',
       })

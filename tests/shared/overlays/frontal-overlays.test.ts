@@ -55,7 +55,7 @@ describe('frontal overlays (implant centring)', () => {
     })
   })
 
-  it("labels the implant's tilt beside its left end", () => {
+  it("labels the implant's tilt left of the segment's leftmost corner, level with the implant", () => {
     // Implant and endplates all level: no tilt (reference §11 unsigned angle).
     expect(byId(shapes, 'frontal-tilt-label-L4-L5')).toMatchObject({
       text: 'tilt 0.0°',
@@ -63,7 +63,8 @@ describe('frontal overlays (implant centring)', () => {
     })
     const label = byId(shapes, 'frontal-tilt-label-L4-L5')
     if (label?.kind !== 'label') throw new Error('no tilt label')
-    expect(label.at[0]).toBeLessThan(150)
+    // Left of L4.il / L5.sl at x = 100, clear of every landmark.
+    expect(label.at[0]).toBeLessThan(100)
     expect(label.at[1]).toBe(150)
   })
 
