@@ -262,7 +262,11 @@ export function compareTable(input: CompareTableInput): ComparisonTable {
     frontalSegments,
     rows,
     plan:
-      input.plan && after.visitKind !== 'pre-op' && kind !== 'flexion-extension'
+      // The plan's targets are lordosis angles, read on a lateral film: a frontal film has none.
+      input.plan &&
+      after.visitKind !== 'pre-op' &&
+      kind !== 'flexion-extension' &&
+      after.view !== 'ap'
         ? planAchievedRows(input.plan, after.measures)
         : [],
     motion: motionRows([before, after]),

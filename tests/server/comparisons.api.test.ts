@@ -358,6 +358,23 @@ describe('GET /api/comparisons', () => {
     )
     await readPhantomAt(app, users.fellow.cookie, postOp, postOpId, 'implant-centring', options)
     await readPhantomAt(app, users.fellow.cookie, followUp, followUpId, 'implant-centring', options)
+    // A plan with a lordosis target at L4-L5: measured on lateral films only, never set beside
+    // a frontal film.
+    const planned = await request(app)
+      .put(`/api/patients/${patientId}/plan/L4-L5`)
+      .set('Cookie', users.surgeon.cookie)
+      .send({
+        parsDefectLeft: false,
+        parsDefectRight: false,
+        facetDegeneration: false,
+        dynamicInstability: false,
+        treatment: 'disc-replacement',
+        implantLordosisDeg: 6,
+        implantHeightMm: 10,
+        notes: null,
+        version: null,
+      })
+    expect(planned.status).toBe(200)
 
     const res = await compare(`images=${followUpId},${postOpId}`)
     expect(res.status).toBe(200)
@@ -365,6 +382,7 @@ describe('GET /api/comparisons', () => {
     expect(comparison.table.kind).toBe('follow-ups')
     expect(comparison.table.segments).toEqual([])
     expect(comparison.table.frontalSegments).toEqual(['L4-L5'])
+    expect(comparison.table.plan).toEqual([])
 
     const offset = rowOf(comparison, 'L4-L5-frontal-offset-mm')
     expect(offset.unit).toBe('mm')
