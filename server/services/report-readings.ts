@@ -92,7 +92,9 @@ function reportFilm(
   visit: Visit,
   identified: boolean,
 ): ReportFilm {
-  const shapes = readingOverlayShapes(reading.template, part.points, part.measurements)
+  const shapes = readingOverlayShapes(reading.template, part.points, part.measurements, {
+    imageRightSide: reading.results.centring?.imageRightSide,
+  })
   return {
     imageId: part.image.id,
     imageUrl: toImageRecord(part.image, identified).urls.preview,

@@ -1,7 +1,8 @@
 import type { Point } from '../geometry/types'
 import type { MeasurementResult } from '../types/measurement'
 import { SEGMENT_NAMES } from '../measurement/landmark-names'
-import type { OverlayPoints, OverlayShape } from './overlay-shapes'
+import { frontalSideWords } from '../measurement/implant-centring'
+import type { OverlayFilmContext, OverlayPoints, OverlayShape } from './overlay-shapes'
 import { overlayNumberText } from './overlay-labels'
 import { overlayLine } from './overlay-primitives'
 
@@ -12,13 +13,16 @@ import { overlayLine } from './overlay-primitives'
  * angles to e = unit((U.ir − U.il) + (W.sr − W.sl)), as long as the disc is high), a ring at the
  * implant's centre and at the spinous process tip. Two labels carry the engine's results: the
  * lateral offset in mm and % of the endplate width beside the endplates' right ends (its sign
- * says the image side: positive toward the image's right edge; mm only on a calibrated film),
+ * says the side: positive toward the image's right edge, named as the patient's side when the
+ * film's Patient Orientation says which it is; mm only on a calibrated film),
  * and the implant's coronal tilt beside the implant's left end.
  */
 export function frontalOverlayShapes(
   points: OverlayPoints,
   results: MeasurementResult | null,
+  context: OverlayFilmContext = {},
 ): OverlayShape[] {
+  const side = context.imageRightSide ?? 'unknown'
   const shapes: OverlayShape[] = []
   for (const segment of SEGMENT_NAMES) {
     const [u, w] = segment.split('-') as [string, string]
@@ -97,8 +101,9 @@ export function frontalOverlayShapes(
       })
     }
     if (text && signed !== null) {
+      // The same side words as the results panel: the patient's side when the file names it.
       const towards =
-        Math.abs(signed) < 0.05 ? 'centred' : signed > 0 ? 'to image right' : 'to image left'
+        Math.abs(signed) < 0.05 ? 'centred' : `to ${frontalSideWords(side, signed > 0 ? 'r' : 'l')}`
       const right = uir[0] >= uil[0] ? uir : uil
       shapes.push({
         kind: 'label',

@@ -324,12 +324,14 @@ describe('GET /api/visits/:id/report.pdf', () => {
     writeFileSync(screenshotPath('report-frontal').replace(/\.png$/, '.pdf'), res.body as Buffer)
     const text = (await pdfPageTexts(res.body as Buffer)).join('\n')
     expect(text).toContain('Implant centring (AP)')
-    // The overlay labels carry the engine's offsets (shared/overlays frontal builder).
-    expect(text).toMatch(/L3-L4 offset \d+\.\d mm \/ \d+\.\d % (to image (left|right)|centred)/)
-    expect(text).toMatch(/L4-L5 offset \d+\.\d mm \/ \d+\.\d % (to image (left|right)|centred)/)
+    // The overlay labels carry the engine's offsets with the patient's side, as the results do:
+    // the file's Patient Orientation L\F makes the image's right edge the patient's left.
+    expect(text).toMatch(/L3-L4 offset \d+\.\d mm \/ \d+\.\d % to patient right/)
+    expect(text).toMatch(/L4-L5 offset \d+\.\d mm \/ \d+\.\d % to patient left/)
     expect(text).toMatch(/tilt \d+\.\d°/)
     expect(text).toContain('Offset from midline')
   })
+
   it('reports the frontal changes against the previous visit: offset, tilt and coronal angle', async () => {
     // Invented course of an L4-L5 disc replacement on the frontal film: 1.0 mm off the midline
     // and 2° of tilt after surgery, 3.5 mm and 6° at follow-up (phantom ground truth).

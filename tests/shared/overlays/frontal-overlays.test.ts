@@ -68,6 +68,19 @@ describe('frontal overlays (implant centring)', () => {
     expect(label.at[1]).toBe(150)
   })
 
+  it("names the patient's side as the results do when the file's Patient Orientation gives it", () => {
+    // DICOM PS3.3 C.7.6.1.1.1: rows toward L — the image's right edge is the patient's left.
+    const named = readingOverlayShapes(
+      'implant-centring',
+      POINTS,
+      computeMeasurements({ mmPerPixel: 0.2, points: POINTS }),
+      { imageRightSide: 'patient-left' },
+    )
+    expect(byId(named, 'frontal-offset-label-L4-L5')).toMatchObject({
+      text: 'L4-L5 offset 4.0 mm / 10.0 % to patient left',
+    })
+  })
+
   it('gives the offset in % alone on an uncalibrated film, and the tilt of a tilted implant', () => {
     // The implant's right end 14 px lower over 140 px: atan(14 / 140) = 5.71° (by hand).
     const tilted = { ...POINTS, 'tdr.L4-L5.r': [290, 164] as PixelPoint }
