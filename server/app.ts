@@ -11,6 +11,7 @@ import type { Db } from './db/knex'
 import { authenticate } from './middleware/authenticate'
 import { errorHandler } from './middleware/error-handler'
 import { notFoundHandler } from './middleware/not-found'
+import { noStore } from './middleware/no-store'
 import { sameOriginWrites } from './middleware/same-origin'
 import { accountRequestLimiter, authRouter } from './routes/auth'
 import { healthRouter } from './routes/health'
@@ -95,6 +96,7 @@ export function createApp({
   const requireSession = authenticate(db, session)
 
   const api = express.Router()
+  api.use(noStore)
   api.use(sameOriginWrites)
   api.use('/health', healthRouter(db))
   api.use(

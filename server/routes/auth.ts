@@ -102,6 +102,8 @@ export function authRouter(options: AuthRouterOptions): Router {
       sameSite: 'strict',
       secure: options.session.secureCookie,
     })
+    // The browser drops what it cached while signed in (films, lists) on this device.
+    res.setHeader('Clear-Site-Data', '"cache"')
     res.status(204).end()
   })
 
