@@ -32,6 +32,7 @@ import { reportsRouter } from './routes/reports'
 import { studiesRouter } from './routes/studies'
 import { exportsRouter } from './routes/exports'
 import { imageDicomRouter } from './routes/image-dicom'
+import { tokenSettingsOf } from './auth/session-token'
 import { createLocalFileStore } from './storage/local-file-store'
 import type { FileStore } from './storage/file-store'
 import { projectRoot } from './project-root'
@@ -59,6 +60,9 @@ export function createApp({
   const app = express()
   app.disable('x-powered-by')
   app.set('trust proxy', 'loopback')
+  // The public address decides: behind TLS the cookie is Secure and browsers are told to stay on
+  // HTTPS, whatever NODE_ENV says.
+  const servedOverHttps = config.publicUrl.startsWith('https:')
 
   app.use(
     helmet({
@@ -74,8 +78,8 @@ export function createApp({
           'upgrade-insecure-requests': null,
         },
       },
-      // Served over plain HTTP on 127.0.0.1 in development and tests; production sits behind TLS.
-      strictTransportSecurity: config.NODE_ENV === 'production',
+      // Only where PUBLIC_URL is https: a plain-HTTP site (127.0.0.1 in development) must not ask for it.
+      strictTransportSecurity: servedOverHttps,
     }),
   )
   app.use(
@@ -88,16 +92,12 @@ export function createApp({
   app.use(cookieParser())
   app.use(express.json({ limit: '2mb' }))
 
-  const session = {
-    secret: config.JWT_SECRET,
-    lifetimeMinutes: config.SESSION_MINUTES,
-    secureCookie: config.NODE_ENV === 'production',
-  }
-  const requireSession = authenticate(db, session)
+  const session = { ...tokenSettingsOf(config), secureCookie: servedOverHttps }
+  const requireSession = authenticate(db, session, now)
 
   const api = express.Router()
   api.use(noStore)
-  api.use(sameOriginWrites)
+  api.use(sameOriginWrites(config.PUBLIC_URL))
   api.use('/health', healthRouter(db))
   api.use(
     '/auth',

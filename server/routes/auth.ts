@@ -2,8 +2,14 @@ import { Router, type RequestHandler } from 'express'
 import { rateLimit } from 'express-rate-limit'
 import type { Db } from '../db/knex'
 import { validate } from '../middleware/validate'
-import { setSessionCookie, type SessionCookieSettings } from '../middleware/authenticate'
-import { SESSION_COOKIE } from '../auth/session-token'
+import {
+  sessionCookieOf,
+  startSession,
+  type SessionCookieSettings,
+} from '../middleware/authenticate'
+import { sessionCookieName } from '../auth/session-token'
+import { loadSiteSettings } from '../services/site-settings'
+import type { MeAnswer } from '../../shared/types/api'
 import { loginBody } from '../schemas/auth'
 import { passwordBody, passwordResetRequestBody, tokenParam } from '../schemas/accounts'
 import { login, logout } from '../services/auth'
@@ -47,10 +53,12 @@ export function authRouter(options: AuthRouterOptions): Router {
 
   router.post('/login', loginLimiter, validate('body', loginBody), async (req, res) => {
     const signedIn = await login(options.db, req.body, options.maxFailures, req.ip ?? null)
-    setSessionCookie(
+    await startSession(
       res,
+      options.db,
       { ...signedIn.user, sessionGeneration: signedIn.sessionGeneration },
       options.session,
+      options.now,
     )
     res.json(signedIn.user)
   })
@@ -95,8 +103,14 @@ export function authRouter(options: AuthRouterOptions): Router {
   )
 
   router.post('/logout', options.authenticate, async (req, res) => {
-    await logout(options.db, actorOf(req), req.session ?? null, options.session.lifetimeMinutes)
-    res.clearCookie(SESSION_COOKIE, {
+    await logout(
+      options.db,
+      actorOf(req),
+      req.session ?? null,
+      options.session.lifetimeMinutes,
+      options.now,
+    )
+    res.clearCookie(sessionCookieName(options.session.secureCookie), {
       path: '/',
       httpOnly: true,
       sameSite: 'strict',
@@ -107,9 +121,30 @@ export function authRouter(options: AuthRouterOptions): Router {
     res.status(204).end()
   })
 
-  router.get('/me', options.authenticate, (req, res) => {
-    res.json(req.user)
-  })
+  // A visitor without a session cookie is an ordinary state (the sign-in page asks first), not an
+  // error: 200 with no user. A cookie that no longer checks out still answers 401.
+  router.get(
+    '/me',
+    (req, res, next) => {
+      if (sessionCookieOf(req, options.session) !== null)
+        return options.authenticate(req, res, next)
+      const answer: MeAnswer = { user: null, session: null }
+      res.json(answer)
+    },
+    async (req, res) => {
+      const { idleSignOutMinutes, sessionAbsoluteHours } = await loadSiteSettings(options.db)
+      const signedInAt = req.session!.signedInAt
+      const answer: MeAnswer = {
+        user: req.user!,
+        session: {
+          signedInAt: signedInAt.toISOString(),
+          endsAt: new Date(signedInAt.getTime() + sessionAbsoluteHours * 3_600_000).toISOString(),
+          idleSignOutMinutes,
+        },
+      }
+      res.json(answer)
+    },
+  )
 
   return router
 }

@@ -6,6 +6,7 @@ import { insertAuditEvent } from '../db/audit'
 import { revokeSession } from '../db/revoked-sessions'
 import { audit, type Actor } from './audit'
 import type { LoginInput, SessionUser } from '../../shared/types/api'
+import type { Clock } from '../clock'
 import { passwordProblem } from '../../shared/accounts/password-rules'
 
 /** A signed-in user and the session generation their token must carry. */
@@ -97,10 +98,11 @@ export async function logout(
   actor: Actor,
   session: { id: string; expiresAt: Date } | null,
   lifetimeMinutes: number,
+  now: Clock,
 ): Promise<void> {
   if (session) {
     const latestExpiry = new Date(
-      Math.max(session.expiresAt.getTime(), Date.now() + lifetimeMinutes * 60_000),
+      Math.max(session.expiresAt.getTime(), now().getTime() + lifetimeMinutes * 60_000),
     )
     await revokeSession(db, session.id, latestExpiry)
   }

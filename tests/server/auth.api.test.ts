@@ -3,7 +3,7 @@ import request from 'supertest'
 import jwt from 'jsonwebtoken'
 import type { Db } from '../../server/db/knex'
 import { TABLES } from '../../server/db/tables'
-import { SESSION_COOKIE } from '../../server/auth/session-token'
+import { SESSION_COOKIE, signSessionToken, tokenSettingsOf } from '../../server/auth/session-token'
 import { LOGIN_FAILED_MESSAGE } from '../../server/services/auth'
 import { openTestDb, truncateAll } from '../support/test-db'
 import { buildTestApp, createTestUser } from '../support/test-app'
@@ -44,7 +44,7 @@ describe('POST /api/auth/login', () => {
     expect(cookie).toMatch(/Max-Age=1800/)
     const me = await request(app).get('/api/auth/me').set('Cookie', cookie!.split(';')[0]!)
     expect(me.status).toBe(200)
-    expect(me.body.role).toBe('fellow')
+    expect(me.body.user.role).toBe('fellow')
     const events = await db(TABLES.auditEvents).where({ action: 'login', user_id: user.id })
     expect(events).toHaveLength(1)
   })
@@ -224,16 +224,10 @@ describe('session tokens', () => {
   it('renews a token past half its lifetime (sliding expiry)', async () => {
     const { app, config } = buildTestApp(db)
     const user = await createTestUser(db, config, 'fellow')
-    const old = jwt.sign(
-      {
-        role: 'fellow',
-        sid: 'a1b2c3d4e5f60718293a4b5c6d7e8f90',
-        iat: Math.floor(Date.now() / 1000) - 20 * 60,
-        exp: Math.floor(Date.now() / 1000) + 10 * 60,
-      },
-      config.JWT_SECRET,
-      { subject: String(user.id) },
-    )
+    // Signed 20 of its 30 minutes ago: 10 minutes left, under half the lifetime.
+    const old = signSessionToken(user.id, 'fellow', tokenSettingsOf(config), {
+      nowSeconds: Math.floor(Date.now() / 1000) - 20 * 60,
+    })
     const res = await request(app).get('/api/auth/me').set('Cookie', `${SESSION_COOKIE}=${old}`)
     expect(res.status).toBe(200)
     expect(sessionCookieOf(res)).toBeDefined()

@@ -47,6 +47,8 @@ describe('GET /api/settings', () => {
           subsidenceThresholdMm: DEFAULT_SUBSIDENCE_THRESHOLD_MM,
           instabilityCriterion: 'white-panjabi-1990',
           invitationLifetimeHours: 72,
+          sessionAbsoluteHours: 12,
+          idleSignOutMinutes: 30,
         },
         version: 0,
         updatedAt: null,

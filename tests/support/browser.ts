@@ -8,6 +8,7 @@ import { createApp } from '../../server/app'
 import type { Db } from '../../server/db/knex'
 import { projectRoot } from '../../server/project-root'
 import { testConfig } from './test-app'
+import { asSameOriginClient } from './scripted-client'
 
 export const SCREENSHOT_DIR = join(projectRoot, 'tests', 'output')
 
@@ -24,7 +25,10 @@ export async function startAppServer(db: Db): Promise<{ url: string; close(): Pr
       'The client is not built: run `npx vite build` (npm test does it) before the browser tests.',
     )
   }
-  const app = createApp({ db, config: testConfig(), logger: pino({ level: 'silent' }), clientDir })
+  // The browser labels its own requests; the set-up writes a test sends with supertest are marked.
+  const app = asSameOriginClient(
+    createApp({ db, config: testConfig(), logger: pino({ level: 'silent' }), clientDir }),
+  )
   const server: Server = createServer(app)
   await new Promise<void>((resolveListen) => server.listen(0, '127.0.0.1', () => resolveListen()))
   const address = server.address()

@@ -15,6 +15,8 @@ describe('site settings', () => {
       subsidenceThresholdMm: 2,
       instabilityCriterion: 'white-panjabi-1990',
       invitationLifetimeHours: 72,
+      sessionAbsoluteHours: 12,
+      idleSignOutMinutes: 30,
     })
   })
 
