@@ -13,7 +13,8 @@ import { errorHandler } from './middleware/error-handler'
 import { notFoundHandler } from './middleware/not-found'
 import { noStore } from './middleware/no-store'
 import { sameOriginWrites } from './middleware/same-origin'
-import { accountRequestLimiter, authRouter } from './routes/auth'
+import { authRouter } from './routes/auth'
+import { limitPerAddress } from './middleware/rate-limit'
 import { healthRouter } from './routes/health'
 import { patientsRouter } from './routes/patients'
 import { visitsRouter } from './routes/visits'
@@ -108,6 +109,7 @@ export function createApp({
       authenticate: requireSession,
       maxFailures: config.LOGIN_MAX_FAILURES,
       loginsPerMinute: config.LOGIN_RATE_LIMIT_PER_MINUTE,
+      attemptsPerAccountHour: config.LOGIN_ATTEMPTS_PER_ACCOUNT_HOUR,
     }),
   )
   api.use(
@@ -117,7 +119,12 @@ export function createApp({
       now,
       session,
       authenticate: requireSession,
-      linkLimiter: accountRequestLimiter(config.LOGIN_RATE_LIMIT_PER_MINUTE, 'invitation requests'),
+      linkLimiter: limitPerAddress(
+        db,
+        'invitation-address',
+        config.LOGIN_RATE_LIMIT_PER_MINUTE,
+        'invitation requests',
+      ),
     }),
   )
   api.use(requireSession)

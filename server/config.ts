@@ -66,6 +66,7 @@ const envSchema = z
       .default(30),
     LOGIN_MAX_FAILURES: z.coerce.number().int().min(1).default(5),
     LOGIN_RATE_LIMIT_PER_MINUTE: z.coerce.number().int().min(1).default(20),
+    LOGIN_ATTEMPTS_PER_ACCOUNT_HOUR: z.coerce.number().int().min(1).default(30),
     UPLOAD_DIR: z.string().default('uploads'),
     UPLOAD_MAX_MB: z.coerce.number().positive().default(100),
     UPLOAD_QUEUE_LIMIT: z.coerce.number().int().min(1).default(100),

@@ -17,6 +17,7 @@ export function testConfig(overrides: Record<string, string> = {}): AppConfig {
     NODE_ENV: 'test',
     LOG_LEVEL: 'silent',
     LOGIN_RATE_LIMIT_PER_MINUTE: '1000',
+    LOGIN_ATTEMPTS_PER_ACCOUNT_HOUR: '1000',
     ...overrides,
   })
 }
