@@ -1,7 +1,7 @@
 import { existsSync, mkdirSync } from 'node:fs'
 import { createServer, type Server } from 'node:http'
 import { join } from 'node:path'
-import type { BrowserContext, Page } from 'playwright-core'
+import type { BrowserContext, ConsoleMessage, Page } from 'playwright-core'
 import { launchHeadlessChromium } from '../../server/cli/chromium'
 import { pino } from 'pino'
 import { createApp } from '../../server/app'
@@ -49,7 +49,8 @@ export function screenshotPath(name: string): string {
 
 /**
  * Signs in through the sign-in screen, from a signed-out state (one persistent profile serves
- * every test of a file, so cookies are cleared first).
+ * every test of a file, so cookies are cleared first). The signed-out sign-in page must leave the
+ * browser console clean: the first "who is signed in" question is answered without an error.
  */
 export async function signInThroughForm(
   browser: BrowserContext,
@@ -58,7 +59,20 @@ export async function signInThroughForm(
   user: { email: string; password: string },
 ): Promise<void> {
   await browser.clearCookies()
+  const consoleErrors: string[] = []
+  const noteError = (message: ConsoleMessage) => {
+    if (message.type() === 'error') consoleErrors.push(message.text())
+  }
+  page.on('console', noteError)
+  const askedWhoIsSignedIn = page.waitForResponse((res) => res.url().endsWith('/api/auth/me'))
   await page.goto(`${baseUrl}/sign-in`)
+  const me = await askedWhoIsSignedIn
+  await page.getByLabel('E-mail').waitFor()
+  page.off('console', noteError)
+  if (me.status() !== 200 || consoleErrors.length > 0)
+    throw new Error(
+      `The signed-out sign-in page was not clean: /api/auth/me answered ${me.status()}; console: ${consoleErrors.join(' | ')}`,
+    )
   await page.getByLabel('E-mail').fill(user.email)
   await page.locator('#password').fill(user.password)
   await page.getByRole('button', { name: 'Sign in' }).click()
