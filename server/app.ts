@@ -11,9 +11,11 @@ import type { Db } from './db/knex'
 import { authenticate } from './middleware/authenticate'
 import { errorHandler } from './middleware/error-handler'
 import { notFoundHandler } from './middleware/not-found'
+import { noStore } from './middleware/no-store'
 import { sameOriginWrites } from './middleware/same-origin'
 import { auditReads } from './middleware/audit-reads'
-import { accountRequestLimiter, authRouter } from './routes/auth'
+import { authRouter } from './routes/auth'
+import { limitPerAddress } from './middleware/rate-limit'
 import { healthRouter } from './routes/health'
 import { patientsRouter } from './routes/patients'
 import { visitsRouter } from './routes/visits'
@@ -32,6 +34,7 @@ import { reportsRouter } from './routes/reports'
 import { studiesRouter } from './routes/studies'
 import { exportsRouter } from './routes/exports'
 import { imageDicomRouter } from './routes/image-dicom'
+import { tokenSettingsOf } from './auth/session-token'
 import { createLocalFileStore } from './storage/local-file-store'
 import type { FileStore } from './storage/file-store'
 import { projectRoot } from './project-root'
@@ -60,6 +63,9 @@ export function createApp({
   const app = express()
   app.disable('x-powered-by')
   app.set('trust proxy', 'loopback')
+  // The public address decides: behind TLS the cookie is Secure and browsers are told to stay on
+  // HTTPS, whatever NODE_ENV says.
+  const servedOverHttps = config.publicUrl.startsWith('https:')
 
   app.use(
     helmet({
@@ -75,8 +81,8 @@ export function createApp({
           'upgrade-insecure-requests': null,
         },
       },
-      // Served over plain HTTP on 127.0.0.1 in development and tests; production sits behind TLS.
-      strictTransportSecurity: config.NODE_ENV === 'production',
+      // Only where PUBLIC_URL is https: a plain-HTTP site (127.0.0.1 in development) must not ask for it.
+      strictTransportSecurity: servedOverHttps,
     }),
   )
   app.use(
@@ -93,15 +99,12 @@ export function createApp({
   app.use(cookieParser())
   app.use(express.json({ limit: '2mb' }))
 
-  const session = {
-    secret: config.JWT_SECRET,
-    lifetimeMinutes: config.SESSION_MINUTES,
-    secureCookie: config.NODE_ENV === 'production',
-  }
-  const requireSession = authenticate(db, session)
+  const session = { ...tokenSettingsOf(config), secureCookie: servedOverHttps }
+  const requireSession = authenticate(db, session, now)
 
   const api = express.Router()
-  api.use(sameOriginWrites)
+  api.use(noStore)
+  api.use(sameOriginWrites(config.PUBLIC_URL))
   api.use('/health', healthRouter(db, requireSession))
   api.use(
     '/auth',
@@ -112,6 +115,7 @@ export function createApp({
       authenticate: requireSession,
       maxFailures: config.LOGIN_MAX_FAILURES,
       loginsPerMinute: config.LOGIN_RATE_LIMIT_PER_MINUTE,
+      attemptsPerAccountHour: config.LOGIN_ATTEMPTS_PER_ACCOUNT_HOUR,
     }),
   )
   api.use(
@@ -121,7 +125,12 @@ export function createApp({
       now,
       session,
       authenticate: requireSession,
-      linkLimiter: accountRequestLimiter(config.LOGIN_RATE_LIMIT_PER_MINUTE, 'invitation requests'),
+      linkLimiter: limitPerAddress(
+        db,
+        'invitation-address',
+        config.LOGIN_RATE_LIMIT_PER_MINUTE,
+        'invitation requests',
+      ),
     }),
   )
   api.use(requireSession)

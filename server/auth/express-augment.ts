@@ -7,7 +7,7 @@ declare global {
       /** Set by `authenticate` once the session token and the account have been checked. */
       user?: SessionUser
       /** The sign-in this request belongs to; its expiry is the current token's. */
-      session?: { id: string; expiresAt: Date }
+      session?: { id: string; expiresAt: Date; signedInAt: Date }
       /** Set once the request's read has been audited on arrival (middleware/audit-reads.ts). */
       readAudited?: { recorded: boolean }
     }

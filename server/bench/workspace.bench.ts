@@ -17,7 +17,7 @@ import { config, parseConfig } from '../config'
 import { insertUser } from '../db/users'
 import { insertPatient } from '../db/patients'
 import { insertVisit } from '../db/visits'
-import { SESSION_COOKIE, signSessionToken } from '../auth/session-token'
+import { SESSION_COOKIE, signSessionToken, tokenSettingsOf } from '../auth/session-token'
 import { generatePhantom, phantomDicom } from '../phantom/generate-phantom'
 import { projectRoot } from '../project-root'
 import { launchHeadlessChromium } from '../cli/chromium'
@@ -131,14 +131,13 @@ export async function run(): Promise<void> {
       indication: null,
       createdBy: userId,
     })
-    const token = signSessionToken(userId, 'fellow', {
-      secret: appConfig.JWT_SECRET,
-      lifetimeMinutes: appConfig.SESSION_MINUTES,
-    })
+    const token = signSessionToken(userId, 'fellow', tokenSettingsOf(appConfig))
     await browser.addCookies([{ name: SESSION_COOKIE, value: token, url }])
 
     const film = await generatePhantom({ widthPx: 3000, heightPx: 2500 })
+    // A scripted request carries no Sec-Fetch-Site, so it names its origin as a page would.
     const upload = await browser.request.post(`${url}/api/visits/${visitId}/images`, {
+      headers: { Origin: url },
       multipart: {
         view: 'lateral-neutral',
         confirmPatientMismatch: 'true',
@@ -149,6 +148,7 @@ export async function run(): Promise<void> {
       throw new Error(`upload answered ${upload.status()}: ${await upload.text()}`)
     const [image] = (await upload.json()) as Array<{ id: number }>
     const created = await browser.request.post(`${url}/api/images/${image!.id}/readings`, {
+      headers: { Origin: url },
       data: { template: 'lumbar-alignment', points: film.landmarks.points },
     })
     if (created.status() !== 201)

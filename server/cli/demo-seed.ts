@@ -1,6 +1,11 @@
 import type { Db } from '../db/knex'
 import { TABLES } from '../db/tables'
 
+/** The demo is seeded only on request (`--demo`), and never into a production database. */
+export function demoRequested(argv: readonly string[], nodeEnv: string): boolean {
+  return argv.includes('--demo') && nodeEnv !== 'production'
+}
+
 /** Seeds the demo only into an empty database, so a second `npm start` keeps what users entered. */
 export async function seedDemoWhenEmpty(db: Db): Promise<void> {
   const [{ count }] = (await db(TABLES.users).count({ count: '*' })) as [{ count: number | string }]

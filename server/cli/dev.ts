@@ -10,12 +10,12 @@ failClearly()
 ensureEnvFile()
 const { config } = await import('../config')
 const { bringUpDatabase, migrateLatest, withDb } = await import('./database-lifecycle')
-const { seedDemoWhenEmpty } = await import('./demo-seed')
+const { demoRequested, seedDemoWhenEmpty } = await import('./demo-seed')
 
 const database = await bringUpDatabase(config, [config.DB_NAME, config.DB_TEST_NAME])
 await withDb(config.DB_NAME, async (db) => {
   await migrateLatest(db)
-  await seedDemoWhenEmpty(db)
+  if (demoRequested(process.argv, config.NODE_ENV)) await seedDemoWhenEmpty(db)
 })
 const children = [
   spawn('npx', ['tsx', 'watch', 'server/index.ts'], { stdio: 'inherit' }),

@@ -1,7 +1,8 @@
 /**
  * `npm start`: everything from a fresh machine to the running demo. Installs and starts the
- * project's MariaDB, migrates, seeds the demo on an empty database, builds the client and serves
- * app and API from one Express process. Ctrl-C stops Express and the MariaDB it started.
+ * project's MariaDB, migrates, seeds the demo on an empty database when asked to (`--demo`, which
+ * `npm start` passes; never with NODE_ENV=production), builds the client and serves app and API
+ * from one Express process. Ctrl-C stops Express and the MariaDB it started.
  */
 import { ensureEnvFile } from './env-file'
 import { failClearly } from './fail-clearly'
@@ -11,8 +12,13 @@ failClearly()
 ensureEnvFile()
 const { config } = await import('../config')
 const { bringUpDatabase, migrateLatest, withDb } = await import('./database-lifecycle')
-const { seedDemoWhenEmpty } = await import('./demo-seed')
+const { demoRequested, seedDemoWhenEmpty } = await import('./demo-seed')
 const { printWelcome } = await import('./welcome')
+
+// Demo accounts have published passwords: only an explicit request seeds them.
+const seedDemo = demoRequested(process.argv, config.NODE_ENV)
+if (process.argv.includes('--demo') && !seedDemo)
+  console.log('NODE_ENV=production: the demo is not seeded.')
 
 const database = await bringUpDatabase(config, [config.DB_NAME, config.DB_TEST_NAME])
 let stopping = false
@@ -35,13 +41,13 @@ process.on('SIGTERM', () => void shutdown(0))
 try {
   await withDb(config.DB_NAME, async (db) => {
     await migrateLatest(db)
-    await seedDemoWhenEmpty(db)
+    if (seedDemo) await seedDemoWhenEmpty(db)
   })
   console.log('Building the client ...')
   await run('npx', ['vite', 'build', '--logLevel', 'warn'])
   const { startServer } = await import('../index')
   running = await startServer()
-  printWelcome(running.url, running.mailCatcherPort)
+  printWelcome(running.url, running.mailCatcherPort, seedDemo)
 } catch (error) {
   console.error(error instanceof Error ? error.message : error)
   await shutdown(1)

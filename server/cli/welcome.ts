@@ -2,7 +2,11 @@ import { DEMO_USERS } from '../demo/demo-data'
 import { ROLE_LABELS } from '../../shared/types/permissions'
 
 /** `mailCatcherPort`: where the local mail catcher listens, or null when it does not run. */
-export function printWelcome(url: string, mailCatcherPort: number | null = null): void {
+export function printWelcome(
+  url: string,
+  mailCatcherPort: number | null = null,
+  demoSeeded = true,
+): void {
   const rows = DEMO_USERS.map(
     (user) => `  ${ROLE_LABELS[user.role].padEnd(14)} ${user.email.padEnd(36)} ${user.password}`,
   )
@@ -11,9 +15,7 @@ export function printWelcome(url: string, mailCatcherPort: number | null = null)
       '',
       `Endplate is running at ${url}`,
       '',
-      'Demo sign-ins (invented staff):',
-      ...rows,
-      '',
+      ...(demoSeeded ? ['Demo sign-ins (invented staff):', ...rows, ''] : []),
       ...(mailCatcherPort !== null
         ? [
             `Mail is caught locally on 127.0.0.1:${mailCatcherPort}; administrators read it on the Mail screen.`,

@@ -24,10 +24,14 @@ export const TABLES = {
   passwordResets: 'password_resets',
   caughtMails: 'caught_mails',
   filmFiles: 'film_files',
+  signInThrottle: 'sign_in_throttle',
+  rateLimits: 'rate_limits',
 } as const
 
 /** Child tables before parents: the order to truncate or delete in. */
 export const TABLES_CHILDREN_FIRST = [
+  TABLES.signInThrottle,
+  TABLES.rateLimits,
   TABLES.caughtMails,
   TABLES.passwordResets,
   TABLES.filmFiles,

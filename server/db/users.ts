@@ -1,5 +1,6 @@
 import type { Db } from './knex'
 import { TABLES } from './tables'
+import { clearSignInFailures, signInAccountKey } from './sign-in-throttle'
 import { toBoolean, toIsoDateTime, toIsoDateTimeOrNull } from './rows'
 import type { Role } from '../../shared/types/domain'
 
@@ -76,20 +77,11 @@ export async function findUserForLogin(
   return row ? { ...toUser(row), passwordHash: row.password_hash } : undefined
 }
 
-/** Counts a failure; `restart` counts it as the first after an expired lock. */
-export async function recordFailedLogin(
-  db: Db,
-  id: number,
-  lockUntil: Date | null,
-  restart = false,
-): Promise<void> {
+/** A stronger hash of the same password (a cost upgrade at sign-in); sessions stay. */
+export async function updatePasswordHash(db: Db, id: number, passwordHash: string): Promise<void> {
   await db(TABLES.users)
     .where({ id })
-    .update({
-      failed_attempts: restart ? 1 : db.raw('failed_attempts + 1'),
-      locked_until: lockUntil,
-      updated_at: new Date(),
-    })
+    .update({ password_hash: passwordHash, updated_at: new Date() })
 }
 
 export async function recordSuccessfulLogin(db: Db, id: number): Promise<void> {
@@ -162,9 +154,10 @@ export async function updateUser(db: Db, id: number, update: UserUpdate): Promis
   if (update.displayName !== undefined) columns.display_name = update.displayName
   if (update.passwordHash !== undefined) {
     columns.password_hash = update.passwordHash
-    // A new password also lifts a sign-in lock.
-    columns.failed_attempts = 0
-    columns.locked_until = null
+    // A new password also lifts a running sign-in pause for the account's address.
+    const row = (await db(TABLES.users).where({ id }).first('email')) as
+      { email: string } | undefined
+    if (row) await clearSignInFailures(db, signInAccountKey(row.email))
   }
   if (update.endSessions) columns.session_generation = db.raw('session_generation + 1')
   await db(TABLES.users).where({ id }).update(columns)

@@ -41,8 +41,8 @@ export function imagesRouter(db: Db, store: FileStore): Router {
     },
   )
 
-  // Renditions are immutable per content hash (the URL carries it), so browsers may keep them;
-  // "private" keeps shared caches from holding patient images.
+  // Renditions of identified films are never stored by the browser (the API's no-store stays);
+  // the ETag (one per film and rendition) still lets a client revalidate with If-None-Match.
   router.get(
     '/:id/files/:name',
     requirePermission('patient:read'),
@@ -61,7 +61,6 @@ export function imagesRouter(db: Db, store: FileStore): Router {
         return
       }
       res.setHeader('Content-Type', mediaType)
-      res.setHeader('Cache-Control', 'private, max-age=31536000, immutable')
       res.setHeader('ETag', etag)
       // pipeline destroys the file stream when the browser cancels the download.
       await pipeline(stream, res).catch((error: NodeJS.ErrnoException) => {

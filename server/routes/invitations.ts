@@ -3,7 +3,7 @@ import type { Db } from '../db/knex'
 import type { Clock } from '../clock'
 import { validate } from '../middleware/validate'
 import { requirePermission } from '../middleware/require-permission'
-import { setSessionCookie, type SessionCookieSettings } from '../middleware/authenticate'
+import { startSession, type SessionCookieSettings } from '../middleware/authenticate'
 import { idParam } from '../schemas/common'
 import { invitationBody, passwordBody, tokenParam } from '../schemas/accounts'
 import {
@@ -60,10 +60,12 @@ export function invitationsRouter(options: InvitationsRouterOptions): Router {
         req.ip ?? null,
         now,
       )
-      setSessionCookie(
+      await startSession(
         res,
+        db,
         { ...signedIn.user, sessionGeneration: signedIn.sessionGeneration },
         options.session,
+        now,
       )
       res.status(201).json(signedIn.user)
     },

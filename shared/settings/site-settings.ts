@@ -111,6 +111,28 @@ export const SITE_SETTINGS = {
     integer: true,
     default: 72,
   },
+  sessionAbsoluteHours: {
+    kind: 'number',
+    label: 'Longest session',
+    help: 'Hours after signing in at which everyone signs in again, however active the session has been.',
+    unit: 'h',
+    min: 1,
+    max: 168,
+    step: 1,
+    integer: true,
+    default: 12,
+  },
+  idleSignOutMinutes: {
+    kind: 'number',
+    label: 'Sign-out when idle',
+    help: 'Minutes without use of mouse or keyboard after which the browser signs out, after a one-minute warning.',
+    unit: 'min',
+    min: 2,
+    max: 720,
+    step: 1,
+    integer: true,
+    default: 30,
+  },
 } as const satisfies Record<string, SiteSettingSpec>
 
 export type SiteSettingKey = keyof typeof SITE_SETTINGS

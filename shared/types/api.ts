@@ -17,6 +17,17 @@ export interface SessionUser {
   role: Role
 }
 
+/** The sign-in as the browser sees it: when it began, when it must end, when idleness ends it. */
+export interface SessionInfo {
+  signedInAt: string
+  /** Absolute end (sign-in plus the longest-session setting); no renewal goes past it. */
+  endsAt: string
+  idleSignOutMinutes: number
+}
+
+/** GET /api/auth/me: a signed-out visitor gets nulls (200), not an error. */
+export type MeAnswer = { user: SessionUser; session: SessionInfo } | { user: null; session: null }
+
 export interface LoginInput {
   email: string
   password: string

@@ -3,7 +3,7 @@ import request from 'supertest'
 import type { BrowserContext, Page } from 'playwright-core'
 import type { Db } from '../../server/db/knex'
 import { TABLES } from '../../server/db/tables'
-import { SESSION_COOKIE, signSessionToken } from '../../server/auth/session-token'
+import { SESSION_COOKIE, signSessionToken, tokenSettingsOf } from '../../server/auth/session-token'
 import { DEMO_USERS } from '../../server/demo/demo-data'
 import { templateLandmarks, type TemplateOptions } from '../../shared/readings/templates'
 import type { ReadingTemplate } from '../../shared/types/domain'
@@ -76,7 +76,7 @@ beforeAll(async () => {
   browser = await launchBrowser()
   const config = testConfig()
   const fellow = await db(TABLES.users).where({ role: 'fellow' }).first()
-  fellowCookie = `${SESSION_COOKIE}=${signSessionToken(fellow.id, 'fellow', { secret: config.JWT_SECRET, lifetimeMinutes: config.SESSION_MINUTES })}`
+  fellowCookie = `${SESSION_COOKIE}=${signSessionToken(fellow.id, 'fellow', tokenSettingsOf(config))}`
   const hybrid = await db(TABLES.patients).where({ record_number: 'EPD-103977' }).first()
   hybridId = hybrid.id
   const visits = await db(TABLES.visits).where({ patient_id: hybridId }).orderBy('visit_date')

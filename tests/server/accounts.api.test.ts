@@ -88,7 +88,7 @@ describe('invitations', () => {
     expect(accepted.status).toBe(201)
     expect(accepted.body).toMatchObject({ email: 'new.fellow@test.example', role: 'fellow' })
     const me = await request(app).get('/api/auth/me').set('Cookie', sessionCookieOf(accepted)!)
-    expect(me.body.email).toBe('new.fellow@test.example')
+    expect(me.body.user.email).toBe('new.fellow@test.example')
     const login = await request(app)
       .post('/api/auth/login')
       .send({ email: 'new.fellow@test.example', password: GOOD_PASSWORD })
@@ -300,7 +300,7 @@ describe('PATCH /api/users/:id', () => {
     expect(res.status).toBe(200)
     expect(res.body).toMatchObject({ role: 'surgeon', displayName: 'Dr Fellow Promoted' })
     const me = await request(app).get('/api/auth/me').set('Cookie', users.fellow.cookie)
-    expect(me.body.role).toBe('surgeon')
+    expect(me.body.user.role).toBe('surgeon')
   })
 
   it('never deactivates or demotes the last active administrator', async () => {

@@ -53,6 +53,7 @@ function startServerProcess(): Promise<{ child: ChildProcess; output: () => stri
       NODE_ENV: 'test',
       LOG_LEVEL: 'info',
       PORT: String(port),
+      PUBLIC_URL: `http://127.0.0.1:${port}`,
       DB_NAME: workerDatabaseName(),
       UPLOAD_DIR: uploadDir,
     },
@@ -122,6 +123,8 @@ function startUpload(file: Buffer, name: string, sendBytes = file.length) {
     path: `/api/visits/${visitId}/images`,
     headers: {
       Cookie: fellow.cookie,
+      // A scripted client names its site as a browser would.
+      'Sec-Fetch-Site': 'same-origin',
       'Content-Type': `multipart/form-data; boundary=${boundary}`,
       'Content-Length': head.length + file.length + tail.length,
     },
@@ -138,7 +141,12 @@ beforeAll(async () => {
   await truncateAll(db)
   uploadDir = mkdtempSync(join(tmpdir(), 'endplate-crash-'))
   port = await freePort()
-  fellow = await createTestUser(db, testConfig(), 'fellow')
+  // The child's public address is the token issuer its sessions must name.
+  fellow = await createTestUser(
+    db,
+    testConfig({ PUBLIC_URL: `http://127.0.0.1:${port}` }),
+    'fellow',
+  )
   const patientId = await insertTestPatient(db, fellow.id)
   visitId = await insertTestVisit(db, patientId, fellow.id)
 })
@@ -164,6 +172,7 @@ describe('a server killed with SIGKILL during uploads', () => {
     const filed = await request(`http://127.0.0.1:${port}`)
       .post(`/api/visits/${visitId}/images`)
       .set('Cookie', fellow.cookie)
+      .set('Sec-Fetch-Site', 'same-origin')
       .field('view', 'lateral-neutral')
       .attach('file', kept, 'kept.png')
     expect(filed.status).toBe(201)

@@ -112,12 +112,21 @@ describe('POST /api/visits/:id/images', () => {
           response.on('end', () => done(null, Buffer.concat(chunks)))
         })
       expect(file.status).toBe(200)
-      expect(file.headers['cache-control']).toBe('private, max-age=31536000, immutable')
+      // Identified films are not kept by the browser; the ETag still allows revalidation.
+      expect(file.headers['cache-control']).toBe('no-store')
+      expect(file.headers.etag).toBe(`"${image.id}-${name}"`)
       const meta = await sharp(file.body as Buffer).metadata()
       expect(Math.max(meta.width ?? 0, meta.height ?? 0)).toBe(maxSide)
       // Only the full-depth rendition keeps 16 bits per sample for window/level in the client.
       expect(meta.depth).toBe(name === 'full-depth' ? 'ushort' : 'uchar')
     }
+    // RFC 9110 §13.1.2: a matching If-None-Match answers 304 without the body.
+    const revalidated = await request(app)
+      .get(`/api/images/${image.id}/files/display`)
+      .set('Cookie', users.surgeon.cookie)
+      .set('If-None-Match', `"${image.id}-display"`)
+    expect(revalidated.status).toBe(304)
+    expect(revalidated.headers['cache-control']).toBe('no-store')
     const stored = filesOnDisk()
     expect(
       stored.some((path) => path.endsWith('original.dcm') && path.includes(image.contentHash)),

@@ -49,6 +49,8 @@ describe('GET /api/settings', () => {
           // measurement-reference §11 (McAfee et al. 2005, from memory).
           implantCentringThresholdMm: 3,
           invitationLifetimeHours: 72,
+          sessionAbsoluteHours: 12,
+          idleSignOutMinutes: 30,
         },
         version: 0,
         updatedAt: null,

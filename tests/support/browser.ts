@@ -1,13 +1,14 @@
 import { existsSync, mkdirSync } from 'node:fs'
 import { createServer, type Server } from 'node:http'
 import { join } from 'node:path'
-import type { BrowserContext, Page } from 'playwright-core'
+import type { BrowserContext, ConsoleMessage, Page } from 'playwright-core'
 import { launchHeadlessChromium } from '../../server/cli/chromium'
 import { pino } from 'pino'
 import { createApp } from '../../server/app'
 import type { Db } from '../../server/db/knex'
 import { projectRoot } from '../../server/project-root'
 import { testConfig } from './test-app'
+import { asSameOriginClient } from './scripted-client'
 
 export const SCREENSHOT_DIR = join(projectRoot, 'tests', 'output')
 
@@ -24,7 +25,10 @@ export async function startAppServer(db: Db): Promise<{ url: string; close(): Pr
       'The client is not built: run `npx vite build` (npm test does it) before the browser tests.',
     )
   }
-  const app = createApp({ db, config: testConfig(), logger: pino({ level: 'silent' }), clientDir })
+  // The browser labels its own requests; the set-up writes a test sends with supertest are marked.
+  const app = asSameOriginClient(
+    createApp({ db, config: testConfig(), logger: pino({ level: 'silent' }), clientDir }),
+  )
   const server: Server = createServer(app)
   await new Promise<void>((resolveListen) => server.listen(0, '127.0.0.1', () => resolveListen()))
   const address = server.address()
@@ -45,7 +49,8 @@ export function screenshotPath(name: string): string {
 
 /**
  * Signs in through the sign-in screen, from a signed-out state (one persistent profile serves
- * every test of a file, so cookies are cleared first).
+ * every test of a file, so cookies are cleared first). The signed-out sign-in page must leave the
+ * browser console clean: the first "who is signed in" question is answered without an error.
  */
 export async function signInThroughForm(
   browser: BrowserContext,
@@ -54,7 +59,20 @@ export async function signInThroughForm(
   user: { email: string; password: string },
 ): Promise<void> {
   await browser.clearCookies()
+  const consoleErrors: string[] = []
+  const noteError = (message: ConsoleMessage) => {
+    if (message.type() === 'error') consoleErrors.push(message.text())
+  }
+  page.on('console', noteError)
+  const askedWhoIsSignedIn = page.waitForResponse((res) => res.url().endsWith('/api/auth/me'))
   await page.goto(`${baseUrl}/sign-in`)
+  const me = await askedWhoIsSignedIn
+  await page.getByLabel('E-mail').waitFor()
+  page.off('console', noteError)
+  if (me.status() !== 200 || consoleErrors.length > 0)
+    throw new Error(
+      `The signed-out sign-in page was not clean: /api/auth/me answered ${me.status()}; console: ${consoleErrors.join(' | ')}`,
+    )
   await page.getByLabel('E-mail').fill(user.email)
   await page.locator('#password').fill(user.password)
   await page.getByRole('button', { name: 'Sign in' }).click()

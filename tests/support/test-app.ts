@@ -5,10 +5,11 @@ import { createApp } from '../../server/app'
 import { parseConfig, type AppConfig } from '../../server/config'
 import type { Db } from '../../server/db/knex'
 import { insertUser } from '../../server/db/users'
-import { signSessionToken } from '../../server/auth/session-token'
+import { signSessionToken, tokenSettingsOf } from '../../server/auth/session-token'
 import { SESSION_COOKIE } from '../../server/auth/session-token'
 import type { Role } from '../../shared/types/domain'
 import type { Clock } from '../../server/clock'
+import { asSameOriginClient } from './scripted-client'
 
 export function testConfig(overrides: Record<string, string> = {}): AppConfig {
   return parseConfig({
@@ -16,27 +17,31 @@ export function testConfig(overrides: Record<string, string> = {}): AppConfig {
     NODE_ENV: 'test',
     LOG_LEVEL: 'silent',
     LOGIN_RATE_LIMIT_PER_MINUTE: '1000',
+    LOGIN_ATTEMPTS_PER_ACCOUNT_HOUR: '1000',
     ...overrides,
   })
 }
 
+/**
+ * The app as API tests reach it. `bare: true` gives the app without the same-origin marking of
+ * scripted requests (see asSameOriginClient), for the tests of the cross-site check itself.
+ */
 export function buildTestApp(
   db: Db,
   overrides: Record<string, string> = {},
-  dependencies: { now?: Clock } = {},
+  dependencies: { now?: Clock; bare?: boolean } = {},
 ): { app: Express; config: AppConfig } {
   const config = testConfig(overrides)
+  const { bare = false, ...appDependencies } = dependencies
   // No built client in API tests: the app serves the API only.
-  return {
-    app: createApp({
-      db,
-      config,
-      logger: pino({ level: 'silent' }),
-      clientDir: '/nonexistent',
-      ...dependencies,
-    }),
+  const app = createApp({
+    db,
     config,
-  }
+    logger: pino({ level: 'silent' }),
+    clientDir: '/nonexistent',
+    ...appDependencies,
+  })
+  return { app: bare ? app : asSameOriginClient(app), config }
 }
 
 /** A clock that stands still until a test moves it (link expiry, mail retries). */
@@ -71,10 +76,7 @@ export async function createTestUser(
     role,
     passwordHash: await bcrypt.hash(password, 4),
   })
-  const token = signSessionToken(id, role, {
-    secret: config.JWT_SECRET,
-    lifetimeMinutes: config.SESSION_MINUTES,
-  })
+  const token = signSessionToken(id, role, tokenSettingsOf(config))
   return { id, email, password, role, cookie: `${SESSION_COOKIE}=${token}` }
 }
 

@@ -17,6 +17,8 @@ describe('site settings', () => {
       // measurement-reference §11: 3 mm (McAfee et al. 2005, Spine 30:1576, from memory).
       implantCentringThresholdMm: 3,
       invitationLifetimeHours: 72,
+      sessionAbsoluteHours: 12,
+      idleSignOutMinutes: 30,
     })
   })
 
