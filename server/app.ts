@@ -12,6 +12,7 @@ import { authenticate } from './middleware/authenticate'
 import { errorHandler } from './middleware/error-handler'
 import { notFoundHandler } from './middleware/not-found'
 import { sameOriginWrites } from './middleware/same-origin'
+import { refuseInvalidUtf8 } from './middleware/utf8-body'
 import { accountRequestLimiter, authRouter } from './routes/auth'
 import { healthRouter } from './routes/health'
 import { patientsRouter } from './routes/patients'
@@ -85,7 +86,7 @@ export function createApp({
     }),
   )
   app.use(cookieParser())
-  app.use(express.json({ limit: '2mb' }))
+  app.use(express.json({ limit: '2mb', verify: refuseInvalidUtf8 }))
 
   const session = {
     secret: config.JWT_SECRET,
