@@ -3,6 +3,7 @@ import type { Db } from '../db/knex'
 import { findUserById } from '../db/users'
 import { isSessionRevoked } from '../db/revoked-sessions'
 import { unauthorized } from '../errors'
+import { tagHandler } from './handler-tags'
 import {
   SESSION_COOKIE,
   signSessionToken,
@@ -44,7 +45,7 @@ export function setSessionCookie(
  * lifetime the token is renewed (sliding expiry).
  */
 export function authenticate(db: Db, settings: SessionCookieSettings): RequestHandler {
-  return async (req, res, next) => {
+  const handler: RequestHandler = async (req, res, next) => {
     const token: unknown = req.cookies?.[SESSION_COOKIE]
     if (typeof token !== 'string' || token.length === 0) throw unauthorized()
     const claims = verifySessionToken(token, settings.secret)
@@ -62,4 +63,5 @@ export function authenticate(db: Db, settings: SessionCookieSettings): RequestHa
       setSessionCookie(res, user, settings, claims.sid)
     next()
   }
+  return tagHandler(handler, { session: true })
 }
