@@ -16,6 +16,7 @@ import { sameOriginWrites } from './middleware/same-origin'
 import { auditReads } from './middleware/audit-reads'
 import { authRouter } from './routes/auth'
 import { limitPerAddress } from './middleware/rate-limit'
+import { refuseInvalidUtf8 } from './middleware/utf8-body'
 import { healthRouter } from './routes/health'
 import { patientsRouter } from './routes/patients'
 import { visitsRouter } from './routes/visits'
@@ -97,7 +98,7 @@ export function createApp({
     }),
   )
   app.use(cookieParser())
-  app.use(express.json({ limit: '2mb' }))
+  app.use(express.json({ limit: '2mb', verify: refuseInvalidUtf8 }))
 
   const session = { ...tokenSettingsOf(config), secureCookie: servedOverHttps }
   const requireSession = authenticate(db, session, now)

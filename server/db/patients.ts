@@ -75,16 +75,14 @@ const SORT_COLUMNS: Record<PatientSortField, string> = {
   updatedAt: 'p.updated_at',
 }
 
-function selectPatients(db: Db): Knex.QueryBuilder {
-  const visitStats = db(TABLES.visits)
-    .select('patient_id')
-    .count({ visit_count: '*' })
-    .min({ first_visit_date: 'visit_date' })
-    .max({ last_visit_date: 'visit_date' })
-    .groupBy('patient_id')
-    .as('v')
-  return db(`${TABLES.patients} as p`)
-    .leftJoin(visitStats, 'v.patient_id', 'p.id')
+/**
+ * A patient's columns with its visit figures (correlated subqueries on the visits' (patient_id,
+ * visit_date) index, so only the rows asked for are counted: a derived table grouped over every
+ * visit was built in full on each request) and the responsible surgeon's name. `p` is patients.
+ */
+function withPatientDetails(db: Db, query: Knex.QueryBuilder): Knex.QueryBuilder {
+  const visitsOf = `FROM ${TABLES.visits} AS v WHERE v.patient_id = p.id`
+  return query
     .leftJoin(`${TABLES.users} as rs`, 'rs.id', 'p.responsible_surgeon_id')
     .select(
       'p.id',
@@ -101,9 +99,9 @@ function selectPatients(db: Db): Knex.QueryBuilder {
       'p.version',
       'p.created_at',
       'p.updated_at',
-      db.raw('COALESCE(v.visit_count, 0) as visit_count'),
-      'v.first_visit_date',
-      'v.last_visit_date',
+      db.raw(`(SELECT COUNT(*) ${visitsOf}) AS visit_count`),
+      db.raw(`(SELECT MIN(v.visit_date) ${visitsOf}) AS first_visit_date`),
+      db.raw(`(SELECT MAX(v.visit_date) ${visitsOf}) AS last_visit_date`),
     )
 }
 
@@ -139,7 +137,8 @@ export async function searchPatients(
   db: Db,
   search: PatientSearch,
 ): Promise<{ items: PatientRecord[]; total: number }> {
-  const query = selectPatients(db)
+  // Filtered, counted and paged on the patients table alone; the joins are made for the page.
+  const query = db(`${TABLES.patients} as p`)
   if (search.researcherId !== undefined) scopeToResearcher(db, query, search.researcherId)
   if (search.studyId !== undefined) {
     query.whereIn(
@@ -162,15 +161,18 @@ export async function searchPatients(
       }
     })
   }
-  const countQuery = db
-    .from(query.clone().clearSelect().clearOrder().select('p.id').as('matches'))
-    .count({ total: '*' })
-  const [{ total }] = (await countQuery) as [{ total: number | string }]
-  const rows = (await query
-    .orderBy(SORT_COLUMNS[search.sort], search.order)
-    .orderBy('p.id', 'asc')
+  const [{ total }] = (await query.clone().count({ total: '*' })) as [{ total: number | string }]
+  // The page's ids in a derived table (ordered on the patients table alone, which an index on
+  // the sort column serves), joined to each patient's details: one statement for the page.
+  const order = (builder: Knex.QueryBuilder) =>
+    builder.orderBy(SORT_COLUMNS[search.sort], search.order).orderBy('p.id', 'asc')
+  const page = order(query.clone().select('p.id'))
     .offset(search.offset)
-    .limit(search.limit)) as PatientRow[]
+    .limit(search.limit)
+    .as('page')
+  const rows = (await order(
+    withPatientDetails(db, db.from(page).join(`${TABLES.patients} as p`, 'p.id', 'page.id')),
+  )) as PatientRow[]
   return { items: rows.map(toPatient), total: Number(total) }
 }
 
@@ -179,7 +181,7 @@ export async function findPatient(
   id: number,
   researcherId?: number,
 ): Promise<PatientRecord | undefined> {
-  const query = selectPatients(db).where('p.id', id)
+  const query = withPatientDetails(db, db(`${TABLES.patients} as p`)).where('p.id', id)
   if (researcherId !== undefined) scopeToResearcher(db, query, researcherId)
   const row = (await query.first()) as PatientRow | undefined
   return row ? toPatient(row) : undefined

@@ -3,6 +3,7 @@ import type { Db } from '../db/knex'
 import { findUserById } from '../db/users'
 import { isSessionRevoked } from '../db/revoked-sessions'
 import { unauthorized } from '../errors'
+import { tagHandler } from './handler-tags'
 import {
   sessionCookieName,
   signSessionToken,
@@ -84,7 +85,7 @@ export const SESSION_TOO_OLD_MESSAGE =
  * counted from sign-in: a stolen cookie cannot be kept alive by using it.
  */
 export function authenticate(db: Db, settings: SessionCookieSettings, now: Clock): RequestHandler {
-  return async (req, res, next) => {
+  const handler: RequestHandler = async (req, res, next) => {
     const token = sessionCookieOf(req, settings)
     if (token === null) throw unauthorized()
     const nowSeconds = Math.floor(now().getTime() / 1000)
@@ -117,6 +118,7 @@ export function authenticate(db: Db, settings: SessionCookieSettings, now: Clock
     }
     next()
   }
+  return tagHandler(handler, { session: true })
 }
 
 /** Sets the cookie of a new sign-in: its absolute lifetime starts now. */

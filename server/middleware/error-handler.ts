@@ -61,6 +61,13 @@ function bodyParserRefusal(error: unknown): HttpError | null {
         'unsupported_encoding',
         `The Content-Encoding "${parserError.encoding ?? ''}" is not accepted: send the body uncompressed, or as gzip, deflate or br.`,
       )
+    // Thrown by refuseInvalidUtf8 (body-parser reports a failed verify as 403; it is a 400).
+    case 'entity.verify.failed':
+      return new HttpError(
+        400,
+        'invalid_utf8',
+        'The request body is not valid UTF-8 text; send JSON encoded as UTF-8.',
+      )
     default:
       return new HttpError(
         400,
@@ -68,6 +75,14 @@ function bodyParserRefusal(error: unknown): HttpError | null {
         'The request body could not be read: it was cut short, or its Content-Encoding does not match its bytes.',
       )
   }
+}
+
+/**
+ * The router's refusal of a path parameter whose %-escapes are not UTF-8 (it throws a URIError
+ * with status 400 from decodeURIComponent): the client's mistake, never a 500.
+ */
+function isUndecodablePath(error: unknown): boolean {
+  return error instanceof URIError && (error as { status?: number }).status === 400
 }
 
 /** Maps every failure to `{ error: { code, message, details? } }`; logs what was unexpected. */
@@ -125,6 +140,15 @@ export function errorHandler(exposeInternals: boolean): ErrorRequestHandler {
         error: {
           code: 'busy',
           message: 'Someone else was changing the same records at that moment. Try again.',
+        },
+      })
+      return
+    }
+    if (isUndecodablePath(error)) {
+      res.status(400).json({
+        error: {
+          code: 'bad_path',
+          message: 'The address has a %-escape that is not UTF-8 text.',
         },
       })
       return

@@ -2,6 +2,7 @@ import type { RequestHandler } from 'express'
 import type { ZodType } from 'zod'
 import { badRequest } from '../errors'
 import { zodDetails } from '../schemas/zod-details'
+import { tagHandler } from './handler-tags'
 
 type Part = 'body' | 'query' | 'params'
 
@@ -10,7 +11,7 @@ type Part = 'body' | 'query' | 'params'
  * `res.locals[part]` (Express 5 makes req.query read-only) and, for the body, on req.body too.
  */
 export function validate(part: Part, schema: ZodType): RequestHandler {
-  return (req, res, next) => {
+  const handler: RequestHandler = (req, res, next) => {
     const result = schema.safeParse(req[part] ?? {})
     if (!result.success) {
       const details = zodDetails(result.error)
@@ -20,4 +21,5 @@ export function validate(part: Part, schema: ZodType): RequestHandler {
     if (part === 'body') req.body = result.data
     next()
   }
+  return tagHandler(handler, { validates: { part, schema } })
 }

@@ -2,6 +2,7 @@ import sharp from 'sharp'
 import type { FileStore } from '../storage/file-store'
 import { overlaySvg } from '../../shared/overlays/overlay-svg'
 import type { ReportFilm } from '../../shared/types/reports'
+import { HttpError } from '../errors'
 
 /** Long side of the film in a report, px: about 200 dpi across an A4 text column. */
 export const REPORT_FILM_LONG_SIDE_PX = 1400
@@ -20,6 +21,23 @@ export interface ComposedFilm {
   heightPx: number
   /** Output px per image px. */
   scale: number
+}
+
+/**
+ * The stored display rendition, or the same 404 the rendition route gives when the file is gone
+ * from storage: a report cannot be drawn without its film, and that is no crash of the server.
+ */
+async function readDisplayRendition(store: FileStore, displayKey: string): Promise<Buffer> {
+  try {
+    return await store.read(displayKey)
+  } catch (error) {
+    if ((error as NodeJS.ErrnoException).code !== 'ENOENT') throw error
+    throw new HttpError(
+      404,
+      'not_found',
+      'The display rendition of a film in this report is missing from storage.',
+    )
+  }
 }
 
 /**
@@ -51,7 +69,7 @@ export async function composeReportFilm(
     points: film.points,
     crop,
   })
-  const jpeg = await sharp(await store.read(displayKey))
+  const jpeg = await sharp(await readDisplayRendition(store, displayKey))
     .extract({ left: crop.x, top: crop.y, width: crop.width, height: crop.height })
     .resize(widthPx, heightPx, { fit: 'fill' })
     .toColourspace('srgb')

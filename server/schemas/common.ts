@@ -30,6 +30,20 @@ export const rowId = z
 
 export const idParam = z.object({ id: rowId })
 
+/**
+ * Largest distance of a landmark or calibration point from the film's origin, px. The largest
+ * radiographs (stitched long-length films) are some tens of thousands of pixels across (from
+ * memory); a point far beyond that is a client's mistake and would overflow the geometry.
+ */
+export const MAX_COORDINATE_PX = 1_000_000
+
+/** One image coordinate in pixels: finite and within ±MAX_COORDINATE_PX. */
+export const pixelCoordinate = z
+  .number({ error: 'must be a number of pixels' })
+  .finite('must be a finite number')
+  .min(-MAX_COORDINATE_PX, `must be within ±${MAX_COORDINATE_PX} px`)
+  .max(MAX_COORDINATE_PX, `must be within ±${MAX_COORDINATE_PX} px`)
+
 export const version = z
   .number({ error: 'must be the version number you last read' })
   .int()

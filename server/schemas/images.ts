@@ -1,7 +1,7 @@
 import { z } from 'zod'
 import { IMAGE_VIEWS } from '../../shared/types/domain'
 import type { CalibrationInput } from '../../shared/types/api'
-import { rowId, version } from './common'
+import { pixelCoordinate, rowId, version } from './common'
 
 const viewValue = z.union([z.enum(IMAGE_VIEWS), z.literal('')], {
   error: `must be one of ${IMAGE_VIEWS.join(', ')}`,
@@ -19,8 +19,7 @@ export const uploadFields = z.object({
     .transform((value) => value === 'true'),
 })
 
-const coordinate = z.number({ error: 'must be a number' }).finite('must be a finite number')
-const point = z.tuple([coordinate, coordinate], { error: 'must be [x, y]' })
+const point = z.tuple([pixelCoordinate, pixelCoordinate], { error: 'must be [x, y]' })
 
 export const calibrationBody = z.strictObject({
   line: z.tuple([point, point], { error: 'must be two points [[x1, y1], [x2, y2]]' }),

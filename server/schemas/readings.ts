@@ -15,12 +15,11 @@ import {
   type ReturnReadingInput,
 } from '../../shared/types/readings'
 import type { TemplateOptions } from '../../shared/readings/templates'
-import { pagingQuery, version } from './common'
+import { pagingQuery, pixelCoordinate, version } from './common'
 
-const coordinate = z
-  .number({ error: 'must be a number of pixels' })
-  .finite('must be a finite number')
-const point = z.tuple([coordinate, coordinate], { error: 'must be [x, y] in image pixels' })
+const point = z.tuple([pixelCoordinate, pixelCoordinate], {
+  error: 'must be [x, y] in image pixels',
+})
 
 /** Landmark name → [x, y]; names are checked against the template by the service. */
 const points = z

@@ -142,4 +142,37 @@ describe('bodies the server cannot read', () => {
     expect(res.status).toBe(400)
     expect(res.body.error.message).toMatch(/file/)
   })
+
+  // RFC 8259 §8.1: JSON exchanged between systems is UTF-8. A lone 0xFF byte is no UTF-8; read
+  // leniently it would be stored as U+FFFD, text the client never sent.
+  it('answers 400 to a JSON body whose bytes are not UTF-8, and stores nothing', async () => {
+    const before = await db('patients').count({ n: '*' }).first()
+    const bytes = Buffer.concat([
+      Buffer.from('{"recordNumber":"U8-1","familyName":"B'),
+      Buffer.from([0xff, 0xfe]),
+      Buffer.from('","givenName":"C","birthDate":"1980-01-01","sex":"male"}'),
+    ])
+    const res = await request(app)
+      .post('/api/patients')
+      .set('Cookie', users.fellow.cookie)
+      .set('Content-Type', 'application/json')
+      // Sent as the bytes themselves; superagent would otherwise re-encode a Buffer as JSON.
+      .serialize((body: Buffer) => body as unknown as string)
+      .send(bytes)
+    expect(res.status).toBe(400)
+    expectErrorBody(res.body)
+    expect(res.body.error.message).toMatch(/UTF-8/)
+    expect(await db('patients').count({ n: '*' }).first()).toEqual(before)
+  })
+
+  // RFC 3986 §2.1 percent-encoding carries octets; %FF%FE decodes to no UTF-8 text, so the router
+  // cannot read the parameter (its decodeURIComponent throws URIError).
+  it('answers 400 to a path parameter whose %-escapes are not UTF-8', async () => {
+    for (const path of ['/api/patients/%FF%FE', `/api/images/%C3/files/display`]) {
+      const res = await request(app).get(path).set('Cookie', users.surgeon.cookie)
+      expect({ path, status: res.status }).toEqual({ path, status: 400 })
+      expectErrorBody(res.body)
+      expect(res.body.error.message).toMatch(/%-escape/)
+    }
+  })
 })
