@@ -25,7 +25,6 @@ import { openImageRendition, type RenditionName } from './images'
 import { calibrationOf, computeReadingResults, landmarkDocument } from './readings-results'
 import { loadSiteSettings } from './site-settings'
 import { APP_VERSION } from '../version'
-import { DEFAULT_IMPLANT_CENTRING_THRESHOLD_MM } from '../../shared/measurement/index'
 import { assertRoundOpen } from './blinded-readings'
 import { assignmentStates, type AssignmentState } from './round-progress'
 
@@ -153,8 +152,8 @@ export async function startAssignment(
       landmarkSigmaMm: settings.landmarkSigmaMm,
       subsidenceThresholdMm: settings.subsidenceThresholdMm,
       instabilityCriterion: settings.instabilityCriterion,
+      implantCentringThresholdMm: settings.implantCentringThresholdMm,
     },
-    centringThresholdMm: DEFAULT_IMPLANT_CENTRING_THRESHOLD_MM,
     imageRightSide: 'unknown',
   })
   return db.transaction(async (trx) => {
