@@ -22,7 +22,6 @@ export async function up(knex: Knex): Promise<void> {
   })
   await knex.schema.alterTable(TABLES.roundAssignments, (table) => {
     table.string('blind_code', 16).notNullable().defaultTo('')
-    table.index(['rater_id', 'round_id', 'repetition', 'position'], 'round_assignments_rater_order')
   })
   await knex.schema.alterTable(TABLES.readings, (table) => {
     table.index(['round_id'], 'readings_round_id')
@@ -34,10 +33,6 @@ export async function down(knex: Knex): Promise<void> {
     table.dropIndex(['round_id'], 'readings_round_id')
   })
   await knex.schema.alterTable(TABLES.roundAssignments, (table) => {
-    table.dropIndex(
-      ['rater_id', 'round_id', 'repetition', 'position'],
-      'round_assignments_rater_order',
-    )
     table.dropColumn('blind_code')
   })
   await knex.schema.alterTable(TABLES.roundRaters, (table) => {
