@@ -25,6 +25,7 @@ import { auditEventsRouter } from './routes/audit-events'
 import { measurementsRouter } from './routes/measurements'
 import { imagesRouter } from './routes/images'
 import { readingsRouter } from './routes/readings'
+import { roundsRouter } from './routes/rounds'
 import { plansRouter } from './routes/plans'
 import { invitationsRouter } from './routes/invitations'
 import { settingsRouter } from './routes/settings'
@@ -150,6 +151,7 @@ export function createApp({
   )
   api.use('/images', imagesRouter(db, store))
   api.use(readingsRouter(db))
+  api.use(roundsRouter(db, { store, now }))
   api.use('/users', usersRouter(db))
   api.use('/audit-events', auditEventsRouter(db))
   api.use('/measurements', measurementsRouter())

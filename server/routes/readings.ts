@@ -23,7 +23,14 @@ import {
 import { amendReading, returnReading, signReading } from '../services/reading-review'
 import { addReadingComment, listReadingComments } from '../services/reading-comments'
 import { listReadings } from '../services/reading-worklist'
+import { toBlindedDto } from '../services/blinded-readings'
+import type { Reading } from '../../shared/types/readings'
+import type { Actor } from '../services/audit'
 import { actorOf } from './actor'
+
+/** The answer to the rater's own write: a round's reading as the round lets its rater see it. */
+const asRaterSees = (db: Db, actor: Actor, reading: Reading) =>
+  reading.blinded ? toBlindedDto(db, actor, reading, true) : reading
 
 /** A version conflict answers the usual error body plus the reading as it now stands. */
 const conflictWithCurrent: ErrorRequestHandler = (error, _req, res, next) => {
@@ -81,7 +88,10 @@ export function readingsRouter(db: Db): Router {
     validate('params', idParam),
     validate('body', patchReadingBody),
     async (req, res) => {
-      res.json(await patchReading(db, actorOf(req), res.locals.params.id, req.body))
+      const actor = actorOf(req)
+      res.json(
+        await asRaterSees(db, actor, await patchReading(db, actor, res.locals.params.id, req.body)),
+      )
     },
   )
 
@@ -91,7 +101,9 @@ export function readingsRouter(db: Db): Router {
     validate('params', idParam),
     validate('body', submitReadingBody),
     async (req, res) => {
-      res.json(await submitReading(db, actorOf(req), res.locals.params.id, req.body.version))
+      const actor = actorOf(req)
+      const submitted = await submitReading(db, actor, res.locals.params.id, req.body.version)
+      res.json(await asRaterSees(db, actor, submitted))
     },
   )
 

@@ -17,7 +17,7 @@ import {
 import { toImageRecord } from './image-dto'
 import { loadVisibleImage } from './images'
 import { getPlan } from './plans'
-import { getReading } from './readings'
+import { getClinicalReading } from './readings'
 import { loadVisibleVisit, toDeidentifiedVisit, toIdentifiedVisit } from './visits'
 
 /** One film of a patient, placed in the patient's visit order, with the reading to show on it. */
@@ -51,7 +51,9 @@ async function comparisonFilm(
       ? toIdentifiedVisit(film.visit, patient)
       : toDeidentifiedVisit(film.visit, patient, film.visitIndex + 1),
     // Through the readings service, so a researcher's copy carries no timestamps.
-    reading: film.filmReading ? await getReading(db, actor, film.filmReading.reading.id) : null,
+    reading: film.filmReading
+      ? await getClinicalReading(db, actor, film.filmReading.reading.id)
+      : null,
     side: film.filmReading?.side ?? null,
     points: pointsOnFilm(film.filmReading),
     measures: filmMeasuresOf(film.filmReading, sigmaMm),

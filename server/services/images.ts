@@ -370,7 +370,15 @@ export async function openRendition(
   imageId: number,
   name: RenditionName,
 ): Promise<{ stream: Readable; mediaType: string; etag: string }> {
-  const image = await loadVisibleImage(db, actor, imageId)
+  return openImageRendition(store, await loadVisibleImage(db, actor, imageId), name)
+}
+
+/** One rendition of a film already checked visible (the clinical route, or a rater's assignment). */
+export async function openImageRendition(
+  store: FileStore,
+  image: ImageRow,
+  name: RenditionName,
+): Promise<{ stream: Readable; mediaType: string; etag: string }> {
   const key = {
     display: image.displayPath,
     preview: image.previewPath,
@@ -383,7 +391,7 @@ export async function openRendition(
     throw new HttpError(
       404,
       'not_found',
-      `The ${name} rendition of film ${imageId} is missing from storage.`,
+      `The ${name} rendition of this film is missing from storage.`,
     )
   return { stream, mediaType, etag: `"${image.id}-${name}"` }
 }

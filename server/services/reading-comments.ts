@@ -1,6 +1,7 @@
 import type { Db } from '../db/knex'
 import { insertComment, listComments } from '../db/comments'
 import type { ReadingComment } from '../../shared/types/readings'
+import { HttpError } from '../errors'
 import { audit, type Actor } from './audit'
 import { loadVisibleReading } from './readings'
 import { notifyReadingComment } from './reading-notifications'
@@ -10,7 +11,8 @@ export async function listReadingComments(
   actor: Actor,
   readingId: number,
 ): Promise<ReadingComment[]> {
-  await loadVisibleReading(db, actor, readingId)
+  const { reading } = await loadVisibleReading(db, actor, readingId)
+  if (reading.blinded) return []
   return listComments(db, readingId)
 }
 
@@ -21,6 +23,13 @@ export async function addReadingComment(
   text: string,
 ): Promise<ReadingComment> {
   const { reading } = await loadVisibleReading(db, actor, readingId)
+  // A thread would carry dates and could name the patient; a round's reading has none.
+  if (reading.blinded)
+    throw new HttpError(
+      409,
+      'reading_blinded',
+      'A reading made in a re-reading round has no thread.',
+    )
   return db.transaction(async (trx) => {
     const comment = await insertComment(trx, {
       readingId,

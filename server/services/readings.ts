@@ -30,6 +30,13 @@ import { loadVisibleImage } from './images'
 import { calibrationOf, computeReadingResults, landmarkDocument } from './readings-results'
 import { loadSiteSettings } from './site-settings'
 import { notifyReadingSubmitted, reviewerFor } from './reading-notifications'
+import {
+  assertRoundOpen,
+  loadBlindedContext,
+  stripBlindedFields,
+  toBlindedDto,
+  type BlindedReading,
+} from './blinded-readings'
 
 type Points = Record<string, PixelPoint>
 
@@ -49,6 +56,8 @@ export class ReadingConflictError extends HttpError {
  * the record as it is.
  */
 export function toReadingDto(record: ReadingRecord, identified = true): Reading {
+  // A blinded reading's dates would say which visit the film is from; it never carries them.
+  if (record.blinded) return stripBlindedFields({ ...record })
   if (identified) return { ...record }
   return {
     ...record,
@@ -70,6 +79,8 @@ export async function loadVisibleReading(
 ): Promise<{ reading: ReadingRecord; image: ImageRow }> {
   const reading = await findReading(db, id)
   if (!reading) throw notFound('reading')
+  // A reading of a re-reading round is its rater's alone until the round's results.
+  if (reading.blinded && reading.raterId !== actor.user.id) throw notFound('reading')
   try {
     return { reading, image: await loadVisibleImage(db, actor, reading.imageId) }
   } catch (error) {
@@ -281,15 +292,32 @@ export async function createReading(
   })
 }
 
-export async function getReading(db: Db, actor: Actor, id: number): Promise<Reading> {
-  return toReadingDto((await loadVisibleReading(db, actor, id)).reading, actorIdentifies(actor))
+export async function getReading(
+  db: Db,
+  actor: Actor,
+  id: number,
+): Promise<Reading | BlindedReading> {
+  const { reading } = await loadVisibleReading(db, actor, id)
+  if (reading.blinded) return toBlindedDto(db, actor, toReadingDto(reading))
+  return toReadingDto(reading, actorIdentifies(actor))
+}
+
+/**
+ * A reading for a clinical view (comparisons, reports): a blinded reading belongs to its round,
+ * never to the patient's record, so it is not found here even by its rater.
+ */
+export async function getClinicalReading(db: Db, actor: Actor, id: number): Promise<Reading> {
+  const { reading } = await loadVisibleReading(db, actor, id)
+  if (reading.blinded) throw notFound('reading')
+  return toReadingDto(reading, actorIdentifies(actor))
 }
 
 export async function listImageReadings(db: Db, actor: Actor, imageId: number): Promise<Reading[]> {
   await loadVisibleImage(db, actor, imageId)
-  return (await listReadingsOfImage(db, imageId)).map((reading) =>
-    toReadingDto(reading, actorIdentifies(actor)),
-  )
+  // Readings of a re-reading round belong to the round, not to the film's clinical record.
+  return (await listReadingsOfImage(db, imageId))
+    .filter((reading) => !reading.blinded)
+    .map((reading) => toReadingDto(reading, actorIdentifies(actor)))
 }
 
 const STALE_MESSAGES: Record<ReadingAction, string> = {
@@ -312,6 +340,12 @@ export function assertCan(
   actor: Actor,
   version?: number,
 ): void {
+  if (reading.blinded && (action === 'sign' || action === 'return' || action === 'amend'))
+    throw new HttpError(
+      409,
+      'reading_blinded',
+      'A reading made in a re-reading round is not signed, returned or amended: it counts only in the round.',
+    )
   const refusal = readingActionRefusal(action, reading, actor.user)
   if (refusal) throw new HttpError(refusal.status, refusal.code, refusal.message)
   if (version !== undefined && reading.version !== version)
@@ -379,6 +413,7 @@ export async function patchReading(
   patch: PatchReadingInput,
 ): Promise<Reading> {
   const { reading, image } = await loadVisibleReading(db, actor, id)
+  if (reading.blinded) assertRoundOpen((await loadBlindedContext(db, actor, reading)).round)
   assertCan('edit', reading, actor, patch.version)
   if (patch.pairedPoints !== undefined && reading.template !== 'motion-pair') {
     throw badRequest('pairedPoints: apply to motion-pair readings only', {
@@ -427,6 +462,7 @@ export async function submitReading(
   version: number,
 ): Promise<Reading> {
   const { reading, image } = await loadVisibleReading(db, actor, id)
+  if (reading.blinded) assertRoundOpen((await loadBlindedContext(db, actor, reading)).round)
   assertCan('submit', reading, actor, version)
   const refusal = submitRefusal({
     template: reading.template,
@@ -440,7 +476,8 @@ export async function submitReading(
   return guardedWrite(db, 'submit', id, actor, version, async (trx) => {
     // Recomputed with the films' current calibration, so the submitted results match what is shown.
     const computation = await recomputeStored(trx, reading, image, id)
-    const reviewerId = await reviewerFor(trx, image.visitId, actor.user.id)
+    // A round's reading goes to no reviewer: it is never signed, and no mail names the film.
+    const reviewerId = reading.blinded ? null : await reviewerFor(trx, image.visitId, actor.user.id)
     if (!(await submitDraftReading(trx, id, version, computation, reviewerId)))
       throw new GuardedWriteRefused()
     const again = reading.status === 'returned' ? ' again after its return' : ''
@@ -453,6 +490,7 @@ export async function submitReading(
       `Submitted ${reading.template} reading ${id}${again} with ${placed.length} of ${names.length} landmarks placed`,
     )
     const submitted = await reload(trx, id)
+    if (submitted.blinded) return toReadingDto(submitted)
     await notifyReadingSubmitted(trx, submitted, actor)
     return toReadingDto(submitted)
   })

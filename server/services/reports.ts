@@ -25,7 +25,7 @@ import { siteSigmaMm } from './film-readings'
 import { loadVisibleImage } from './images'
 import { getPlan } from './plans'
 import { dateTimeText, reportReading, visitFor } from './report-readings'
-import { getReading } from './readings'
+import { getClinicalReading } from './readings'
 import { loadVisibleVisit } from './visits'
 
 const PRODUCT = 'Endplate'
@@ -84,7 +84,7 @@ async function readingPart(
   sigmaMm: number,
   films: Map<number, ImageRow>,
 ): Promise<ReportReading> {
-  const reading = await getReading(db, actor, readingId)
+  const reading = await getClinicalReading(db, actor, readingId)
   const image = await loadVisibleImage(db, actor, reading.imageId)
   const pairedImage = reading.pairedImageId
     ? ((await findImage(db, reading.pairedImageId)) ?? null)
@@ -109,7 +109,7 @@ async function readingReportParts(
   actor: Actor,
   readingId: number,
 ): Promise<ReportParts<ReadingReport>> {
-  const reading = await getReading(db, actor, readingId)
+  const reading = await getClinicalReading(db, actor, readingId)
   const image = await loadVisibleImage(db, actor, reading.imageId)
   const { visit, patient } = await loadVisibleVisit(db, actor, image.visitId)
   const visits = await listVisitsOfPatient(db, patient.id)

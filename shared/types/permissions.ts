@@ -22,6 +22,12 @@ export const PERMISSIONS = {
   'study:read': ['admin', 'surgeon', 'researcher'],
   /** Create and edit studies, choose their patients and researcher members. */
   'study:manage': ['admin', 'surgeon'],
+  /** Start, close and reopen re-reading rounds of a study. */
+  'round:manage': ['admin', 'surgeon'],
+  /** A round's progress and reliability results: researchers only in the studies they belong to. */
+  'round:read': ['admin', 'surgeon', 'researcher'],
+  /** Read one's own blinded assignments of a round. */
+  'round:rate': ['surgeon', 'fellow'],
   /** Measurement tables as CSV or XLSX: de-identified for researchers. */
   'export:measurements': ['surgeon', 'researcher'],
   'user:manage': ['admin'],
