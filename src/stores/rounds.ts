@@ -129,6 +129,13 @@ export const useRoundsStore = defineStore('rounds', () => {
     return perPatient.flat()
   }
 
+  /** Rounds of several studies at once (a researcher's first screen), by study id. */
+  const byStudy = ref<Record<number, RoundSummary[]>>({})
+  async function loadRoundsOfStudies(ids: number[]): Promise<void> {
+    const pages = await Promise.all(ids.map((id) => listStudyRounds(id, { limit: 100 })))
+    byStudy.value = Object.fromEntries(ids.map((id, index) => [id, pages[index]?.items ?? []]))
+  }
+
   async function raterCandidates(): Promise<RoundRaterCandidate[]> {
     return (await listRaterCandidates()).items
   }
@@ -150,5 +157,7 @@ export const useRoundsStore = defineStore('rounds', () => {
     loadResults,
     filmCandidates,
     raterCandidates,
+    byStudy,
+    loadRoundsOfStudies,
   }
 })
