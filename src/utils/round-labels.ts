@@ -6,7 +6,7 @@ export const ROUND_KIND_LABELS: Record<RoundKind, string> = {
 }
 
 export const ROUND_STATUS_LABELS: Record<RoundStatus, string> = {
-  open: 'Open',
+  open: 'In progress',
   closed: 'Closed',
 }
 

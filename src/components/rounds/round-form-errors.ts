@@ -23,10 +23,3 @@ export function roundFieldMessage(field: string, message: string): string {
   if (label && CONTINUES_LABEL.test(message)) return `${label} ${message}`
   return message.charAt(0).toUpperCase() + message.slice(1)
 }
-
-/** Field errors whose field the form does not show: said at the top of the form instead. */
-export function unplacedFieldErrors(errors: Record<string, string>): string[] {
-  return Object.entries(errors)
-    .filter(([field]) => !(field in ROUND_FIELD_LABELS))
-    .map(([field, message]) => `${field}: ${message}`)
-}
