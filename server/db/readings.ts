@@ -286,6 +286,7 @@ export async function findConstructBaselines(
     .join(`${TABLES.visits} as v`, 'v.id', 'i.visit_id')
     .where({ 'v.patient_id': patientId, 'v.kind': 'post-op', 'r.template': 'construct-check' })
     .whereIn('r.status', ['submitted', 'signed'])
+    .where('r.blinded', false)
     .where('v.visit_date', '<=', current.visitDate)
     .whereNot('v.id', current.visitId)
     .orderBy([

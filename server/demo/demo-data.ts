@@ -147,7 +147,7 @@ export const DEMO_PATIENTS: DemoPatient[] = [
     sex: 'male',
     notes: 'Dysplastic L5-S1 slip.',
     studyCode: 'EP-6CN4PD',
-    inStudy: false,
+    inStudy: true,
     visits: [
       { date: '2026-06-30', kind: 'pre-op', indication: 'Referral for reduction and fusion.' },
     ],
@@ -161,7 +161,7 @@ export const DEMO_PATIENTS: DemoPatient[] = [
     sex: 'female',
     notes: 'Spondyloptosis of L5 on S1.',
     studyCode: 'EP-9RM7KS',
-    inStudy: false,
+    inStudy: true,
     visits: [
       { date: '2026-05-27', kind: 'pre-op', indication: 'Complete slip; planning discussion.' },
     ],
@@ -253,7 +253,7 @@ export const DEMO_PATIENTS: DemoPatient[] = [
     sex: 'female',
     notes: 'Disc degeneration L4-L5, candidate for disc replacement.',
     studyCode: 'EP-8MV2ZC',
-    inStudy: false,
+    inStudy: true,
     visits: [
       { date: '2026-09-15', kind: 'pre-op', indication: 'Discogenic pain; facets normal on MRI.' },
     ],

@@ -20,6 +20,9 @@ import {
   openAssignmentRendition,
   startAssignment,
 } from '../services/assignments'
+import { getRoundResults } from '../services/round-results'
+import { roundResultsCsv } from '../services/round-results-csv'
+import { audit } from '../services/audit'
 import { actorOf } from './actor'
 
 /** Mounted at /api: a study's rounds, one round, and the rater's assignments. */
@@ -63,6 +66,30 @@ export function roundsRouter(db: Db, deps: { store: FileStore; now: Clock }): Ro
     validate('body', patchRoundBody),
     async (req, res) => {
       res.json(await patchRound(db, actorOf(req), res.locals.params.id, req.body, now()))
+    },
+  )
+
+  router.get(
+    '/rounds/:id/results',
+    requirePermission('round:read'),
+    validate('params', idParam),
+    async (req, res) => {
+      res.json(await getRoundResults(db, actorOf(req), res.locals.params.id, now()))
+    },
+  )
+
+  router.get(
+    '/rounds/:id/results.csv',
+    requirePermission('round:read'),
+    validate('params', idParam),
+    async (req, res) => {
+      const actor = actorOf(req)
+      const id = res.locals.params.id as number
+      const csv = roundResultsCsv(await getRoundResults(db, actor, id, now()))
+      await audit(db, actor, 'export', 'round', id, `Downloaded the results of round ${id} as CSV`)
+      res.setHeader('Content-Type', 'text/csv; charset=utf-8')
+      res.setHeader('Content-Disposition', `attachment; filename="round-${id}-results.csv"`)
+      res.send(csv)
     },
   )
 

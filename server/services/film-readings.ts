@@ -28,7 +28,8 @@ export async function readingForFilm(
   image: ImageRow,
   wantedReadingId?: number,
 ): Promise<FilmReading | null> {
-  const readings = await listReadingsOfImage(db, image.id)
+  // A reading of a re-reading round never stands for the film in a clinical view.
+  const readings = (await listReadingsOfImage(db, image.id)).filter((reading) => !reading.blinded)
   const chosen =
     wantedReadingId === undefined
       ? currentReadingOf(readings)

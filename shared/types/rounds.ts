@@ -112,11 +112,12 @@ export interface AssignmentFilm {
   urls: { display: string; preview: string; thumbnail: string; fullDepth: string }
 }
 
+/** One ICC form; a bound or F that is infinite (perfect agreement, very few targets) is null. */
 export interface IccFormResult {
   icc: number
-  lower: number
-  upper: number
-  f: number
+  lower: number | null
+  upper: number | null
+  f: number | null
   df1: number
   df2: number
   p: number

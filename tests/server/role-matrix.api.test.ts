@@ -5,7 +5,12 @@ import type { Db } from '../../server/db/knex'
 import type { AppConfig } from '../../server/config'
 import type { Role } from '../../shared/types/domain'
 import { openTestDb, truncateAll } from '../support/test-db'
-import { buildTestApp, createUsersForEveryRole, type TestUser } from '../support/test-app'
+import {
+  buildTestApp,
+  createTestUser,
+  createUsersForEveryRole,
+  type TestUser,
+} from '../support/test-app'
 import {
   insertStudyWith,
   insertTestFilm,
@@ -42,6 +47,13 @@ interface Ids {
   readingVersion: () => Promise<number>
   imageVersion: () => Promise<number>
   studyVersion: () => Promise<number>
+  /** An inter-rater round of the study, read by the fellow and a second surgeon (not users.surgeon). */
+  roundId: number
+  roundVersion: () => Promise<number>
+  roundRaterIds: number[]
+  roundImageIds: number[]
+  /** The fellow's first assignment in that round. */
+  assignmentId: number
 }
 
 let n = 0
@@ -329,6 +341,62 @@ const ROUTES: RouteCase[] = [
     version: (ids) => ids.studyVersion(),
     expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 403 },
   },
+  // Re-reading rounds: surgeons and admins run them, study researchers read progress and results,
+  // fellows and surgeons read their own assignments (someone else's is not found).
+  {
+    method: 'post',
+    path: (ids) => `/api/studies/${ids.studyId}/rounds`,
+    body: (ids, count) => ({
+      name: `Matrix round ${count}`,
+      kind: 'inter',
+      template: 'slip-grade',
+      options: { showResultsBeforeSubmit: true },
+      imageIds: ids.roundImageIds,
+      raterIds: ids.roundRaterIds,
+    }),
+    expect: { anonymous: 401, admin: 201, surgeon: 201, fellow: 403, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: (ids) => `/api/studies/${ids.studyId}/rounds`,
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 200 },
+  },
+  {
+    method: 'get',
+    path: (ids) => `/api/rounds/${ids.roundId}`,
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 200 },
+  },
+  {
+    method: 'patch',
+    path: (ids) => `/api/rounds/${ids.roundId}`,
+    body: () => ({ status: 'open' }),
+    version: (ids) => ids.roundVersion(),
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 403 },
+  },
+  ...[
+    (ids: Ids) => `/api/rounds/${ids.roundId}/results`,
+    (ids: Ids) => `/api/rounds/${ids.roundId}/results.csv`,
+  ].map((path): RouteCase => ({
+    method: 'get',
+    path,
+    expect: { anonymous: 401, admin: 200, surgeon: 200, fellow: 403, researcher: 200 },
+  })),
+  {
+    method: 'get',
+    path: () => '/api/assignments',
+    expect: { anonymous: 401, admin: 403, surgeon: 200, fellow: 200, researcher: 403 },
+  },
+  {
+    method: 'post',
+    path: (ids) => `/api/assignments/${ids.assignmentId}/start`,
+    body: () => ({}),
+    expect: { anonymous: 401, admin: 403, surgeon: 404, fellow: 201, researcher: 403 },
+  },
+  {
+    method: 'get',
+    path: (ids) => `/api/assignments/${ids.assignmentId}/film.json`,
+    expect: { anonymous: 401, admin: 403, surgeon: 404, fellow: 200, researcher: 403 },
+  },
   // Measurement exports: de-identified for researchers; clinicians' fellows and admins get none.
   ...[
     '/api/exports/measurements.csv',
@@ -462,7 +530,36 @@ beforeEach(async () => {
   if (submitted.status !== 200)
     throw new Error(`could not submit the matrix reading: ${JSON.stringify(submitted.body)}`)
   const submittedReadingId = second.body.id as number
+  const roundImageIds = [imageId, await insertTestFilm(db, visitId, users.fellow.id)]
+  const raterSurgeon = await createTestUser(db, config, 'surgeon', 'rater-surgeon@test.example')
+  const roundRaterIds = [users.fellow.id, raterSurgeon.id]
+  const round = await request(app)
+    .post(`/api/studies/${studyId}/rounds`)
+    .set('Cookie', users.surgeon.cookie)
+    .send({
+      name: 'Matrix round',
+      kind: 'inter',
+      template: 'slip-grade',
+      options: { showResultsBeforeSubmit: true },
+      imageIds: roundImageIds,
+      raterIds: roundRaterIds,
+    })
+  if (round.status !== 201)
+    throw new Error(`could not start the matrix round: ${JSON.stringify(round.body)}`)
+  const roundId = round.body.id as number
+  const assignmentId = (
+    await db('round_assignments')
+      .where({ round_id: roundId, rater_id: users.fellow.id })
+      .orderBy('position')
+      .first()
+  ).id as number
   ids = {
+    roundId,
+    roundVersion: async () =>
+      (await db('reliability_rounds').where({ id: roundId }).first()).version,
+    roundRaterIds,
+    roundImageIds,
+    assignmentId,
     patientId,
     visitId,
     imageId,
@@ -483,7 +580,7 @@ beforeEach(async () => {
 
 describe('role × route matrix', () => {
   for (const route of ROUTES) {
-    it(`${route.method.toUpperCase()} ${route.path({ patientId: 1, visitId: 1, imageId: 1, readingId: 1, submittedReadingId: 1, fellowId: 1, studyId: 1 } as Ids).replace(/\/1(\/|$)/g, '/:id$1')} answers each role as designed`, async () => {
+    it(`${route.method.toUpperCase()} ${route.path({ patientId: 1, visitId: 1, imageId: 1, readingId: 1, submittedReadingId: 1, fellowId: 1, studyId: 1, roundId: 1, assignmentId: 1 } as Ids).replace(/\/1(\/|$)/g, '/:id$1')} answers each role as designed`, async () => {
       const seen: Record<string, number> = {}
       for (const who of Object.keys(route.expect) as Who[]) {
         let body = route.body?.(ids, n)
