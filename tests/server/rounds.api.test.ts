@@ -8,6 +8,8 @@ import type { Role } from '../../shared/types/domain'
 import { analyseReliability } from '../../shared/statistics/index'
 import { planAssignments } from '../../server/services/rounds'
 import { openTestDb, truncateAll } from '../support/test-db'
+import { smallPhantomFiles } from '../support/phantom-files'
+import { uploadPhantomFilm } from '../support/api-films'
 import {
   buildTestApp,
   createTestUser,
@@ -491,5 +493,54 @@ describe('GET /api/rounds/:id/results', () => {
     expect(csv.headers['content-type']).toContain('text/csv')
     expect(csv.text).toContain('L5-S1.slipPercent')
     expect(csv.text.split('\n')[0]).toContain('icc_2_1_lower')
+  })
+})
+
+describe('GET /api/assignments/:id/film', () => {
+  it('serves the rater the same rendition bytes as the clinical route, tagged by the assignment only', async () => {
+    const phantom = await smallPhantomFiles({ seed: 5 })
+    const visitId = (await db(TABLES.images).where({ id: filmIds[0] }).first()).visit_id as number
+    const uploaded = await uploadPhantomFilm(app, users.fellow.cookie, visitId, phantom)
+    await as(users.surgeon).post(
+      `/api/studies/${studyId}/rounds`,
+      interRound({ imageIds: [uploaded, filmIds[1]], raterIds: [users.fellow.id, fellow2.id] }),
+    )
+    const items = (await as(users.fellow).get('/api/assignments')).body.items as Array<{
+      id: number
+    }>
+    const mine = await db(TABLES.roundAssignments).whereIn(
+      'id',
+      items.map((item) => item.id),
+    )
+    const assignmentId = mine.find((row) => row.image_id === uploaded).id as number
+    const film = await as(users.fellow).get(`/api/assignments/${assignmentId}/film.json`)
+    expect(film.status).toBe(200)
+    // The phantom's header spacing: 750 × 625 px (tests/support/phantom-files.ts).
+    expect(film.body).toMatchObject({ width: 750, height: 625 })
+    const blinded = await request(app)
+      .get(film.body.urls.display)
+      .set('Cookie', users.fellow.cookie)
+      .buffer(true)
+      .parse((res, done) => {
+        const chunks: Buffer[] = []
+        res.on('data', (chunk: Buffer) => chunks.push(chunk))
+        res.on('end', () => done(null, Buffer.concat(chunks)))
+      })
+    expect(blinded.status).toBe(200)
+    expect(blinded.headers.etag).toBe(`"assignment-${assignmentId}-display"`)
+    const clinical = await request(app)
+      .get(`/api/images/${uploaded}/files/display`)
+      .set('Cookie', users.fellow.cookie)
+      .buffer(true)
+      .parse((res, done) => {
+        const chunks: Buffer[] = []
+        res.on('data', (chunk: Buffer) => chunks.push(chunk))
+        res.on('end', () => done(null, Buffer.concat(chunks)))
+      })
+    expect(Buffer.compare(blinded.body as Buffer, clinical.body as Buffer)).toBe(0)
+    // Someone else's assignment is not found.
+    expect((await as(fellow2).get(`/api/assignments/${assignmentId}/film/display`)).status).toBe(
+      404,
+    )
   })
 })
