@@ -25,6 +25,7 @@ import { auditEventsRouter } from './routes/audit-events'
 import { measurementsRouter } from './routes/measurements'
 import { imagesRouter } from './routes/images'
 import { readingsRouter } from './routes/readings'
+import { roundRatersRouter } from './routes/round-raters'
 import { roundsRouter } from './routes/rounds'
 import { plansRouter } from './routes/plans'
 import { invitationsRouter } from './routes/invitations'
@@ -151,6 +152,8 @@ export function createApp({
   )
   api.use('/images', imagesRouter(db, store))
   api.use(readingsRouter(db))
+  // Before the rounds router, whose /rounds/:id would take the path's last part for an id.
+  api.use('/rounds', roundRatersRouter(db))
   api.use(roundsRouter(db, { store, now }))
   api.use('/users', usersRouter(db))
   api.use('/audit-events', auditEventsRouter(db))

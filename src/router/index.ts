@@ -15,6 +15,8 @@ export type RouteName =
   | 'patients'
   | 'patient'
   | 'reading-workspace'
+  | 'assignment-workspace'
+  | 'round-results'
   | 'studies'
   | 'study'
   | 'administration'
@@ -99,6 +101,20 @@ const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
     component: () => import('@/views/ReadingWorkspaceView.vue'),
     props: (route) => ({ readingId: Number(route.params.readingId) }),
     meta: { permission: 'patient:read', title: 'Reading' },
+  },
+  {
+    path: '/assignments/:assignmentId',
+    name: 'assignment-workspace',
+    component: () => import('@/views/ReadingWorkspaceView.vue'),
+    props: (route) => ({ assignmentId: Number(route.params.assignmentId) }),
+    meta: { permission: 'round:rate', title: 'Blinded reading' },
+  },
+  {
+    path: '/rounds/:roundId/results',
+    name: 'round-results',
+    component: () => import('@/views/RoundResultsView.vue'),
+    props: (route) => ({ roundId: Number(route.params.roundId) }),
+    meta: { permission: 'round:read', title: 'Round results' },
   },
   {
     path: '/patients/:patientId/compare',

@@ -18,12 +18,23 @@ import {
 } from '@/api/readings'
 import { getVisit } from '@/api/visits'
 import { calibrateImage, getImage } from '@/api/images'
+import { getAssignmentFilm } from '@/api/assignments'
 import { ApiError } from '@/api/http'
+import { blindedFilmRecord } from '@/utils/blinded-film'
 
 export type SaveState = 'saved' | 'saving' | 'unsaved' | 'offline' | 'conflict' | 'error'
 /** Which film of the reading: the image, or the paired (extension) image of a motion pair. */
 export type FilmSide = 'primary' | 'paired'
 export type PointMap = Record<string, PixelPoint>
+
+/** A reading opened from a re-reading assignment: what the blinded workspace shows instead. */
+export interface BlindContext {
+  assignmentId: number
+  blindCode: string
+  roundName: string
+  /** False: no results, on the panel or the film, until the reading is submitted. */
+  showResultsBeforeSubmit: boolean
+}
 
 interface Snapshot {
   points: PointMap
@@ -63,6 +74,8 @@ export const useReadingsStore = defineStore('readings', () => {
   const pairedFilm = ref<ImageRecord | null>(null)
   const visit = ref<Visit | null>(null)
   const loadError = ref<string | null>(null)
+  /** Set while the reading is one of a blinded round's: no patient, visit or date is fetched. */
+  const blind = ref<BlindContext | null>(null)
 
   const points = ref<PointMap>({})
   const pairedPoints = ref<PointMap>({})
@@ -166,10 +179,24 @@ export const useReadingsStore = defineStore('readings', () => {
     pairedPoints.value = copyPoints(loaded.pairedLandmarks?.points ?? {})
   }
 
-  async function load(readingId: number): Promise<void> {
+  async function load(readingId: number, blindContext: BlindContext | null = null): Promise<void> {
     reset()
     try {
       const loaded = await getReading(readingId)
+      if (loaded.blinded) {
+        if (!blindContext) {
+          // Opened by its address rather than from the assignment: the film would come through
+          // the clinical routes, so the reading is shown only from the worklist.
+          loadError.value =
+            'This reading belongs to a blinded re-reading round: open it from your worklist.'
+          return
+        }
+        const blindFilm = await getAssignmentFilm(blindContext.assignmentId)
+        blind.value = blindContext
+        adopt(loaded)
+        film.value = blindedFilmRecord(loaded.imageId, blindFilm)
+        return
+      }
       const [image, paired] = await Promise.all([
         getImage(loaded.imageId),
         loaded.pairedImageId === null ? Promise.resolve(null) : getImage(loaded.pairedImageId),
@@ -537,6 +564,7 @@ export const useReadingsStore = defineStore('readings', () => {
     film.value = null
     pairedFilm.value = null
     visit.value = null
+    blind.value = null
     loadError.value = null
     points.value = {}
     pairedPoints.value = {}
@@ -564,6 +592,7 @@ export const useReadingsStore = defineStore('readings', () => {
     film,
     pairedFilm,
     visit,
+    blind,
     loadError,
     points,
     pairedPoints,
