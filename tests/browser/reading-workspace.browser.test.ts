@@ -190,6 +190,68 @@ describe('Reading workspace in Chromium', () => {
     await page.close()
   })
 
+  it('suggests the corner near a placed point; a click on it or Enter accepts, Escape keeps the own point', async () => {
+    const { image, truth } = await uploadPhantom('meyerding-2')
+    const reading = await createReading(image.id, {
+      template: 'slip-grade',
+      options: { segment: 'L5-S1' },
+    })
+    const page = await browser.newPage()
+    await openWorkspace(page, reading.id)
+    const surface = page.locator('[data-testid="film-canvas"][data-side="primary"]')
+    const mmPerPixel = image.mmPerPixel![1]
+    // About 1.5 mm off the true corner, inside the default 3 mm search radius.
+    const near = (name: string): [number, number] => {
+      const [x, y] = truth.points[name]!
+      return [x + 1.2 / mmPerPixel, y - 0.9 / mmPerPixel]
+    }
+    const suggestion = async (): Promise<[number, number]> => {
+      await expect.poll(() => surface.getAttribute('data-suggestion-x')).not.toBeNull()
+      return [
+        Number(await surface.getAttribute('data-suggestion-x')),
+        Number(await surface.getAttribute('data-suggestion-y')),
+      ]
+    }
+    const distance = (a: readonly number[], b: readonly number[]) =>
+      Math.hypot(a[0]! - b[0]!, a[1]! - b[1]!)
+    const view = await viewState(page)
+
+    // L5.as: a click on the amber mark accepts it.
+    await page.mouse.click(...toScreen(view, near('L5.as')))
+    const first = await suggestion()
+    await page.mouse.move(5, 5)
+    await page.screenshot({ path: screenshotPath('workspace-corner-suggestion') })
+    // The phantom draws its corners where the truth is (server/phantom): the suggestion lies
+    // nearer the true corner than the click did.
+    expect(distance(first, truth.points['L5.as']!)).toBeLessThan(
+      distance(near('L5.as'), truth.points['L5.as']!),
+    )
+    await page.mouse.click(...toScreen(view, first))
+    await expect.poll(() => surface.getAttribute('data-suggestion-x')).toBeNull()
+
+    // L5.ps: Enter accepts.
+    await page.mouse.click(...toScreen(view, near('L5.ps')))
+    const second = await suggestion()
+    await page.keyboard.press('Enter')
+    await expect.poll(() => surface.getAttribute('data-suggestion-x')).toBeNull()
+
+    // L5.pi: Escape keeps the rater's own point.
+    await page.mouse.click(...toScreen(view, near('L5.pi')))
+    await suggestion()
+    await page.keyboard.press('Escape')
+    await expect.poll(() => surface.getAttribute('data-suggestion-x')).toBeNull()
+
+    await expect
+      .poll(() => page.getByTestId('save-state').innerText(), { timeout: 10_000 })
+      .toContain('Saved')
+    const stored = await storedReading(reading.id)
+    expect(stored.landmarks.points['L5.as']).toEqual(first)
+    expect(stored.landmarks.points['L5.ps']).toEqual(second)
+    expect(distance(stored.landmarks.points['L5.pi']!, near('L5.pi'))).toBeLessThan(1)
+    expect(stored.suggestionUse.points).toEqual({ 'L5.as': true, 'L5.ps': true, 'L5.pi': false })
+    await page.close()
+  })
+
   it('drags a landmark: the slip changes and the draft is saved on the server', async () => {
     const page = await browser.newPage()
     await openWorkspace(page, slipReading.id)

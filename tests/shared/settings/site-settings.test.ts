@@ -14,6 +14,9 @@ describe('site settings', () => {
       landmarkSigmaMm: DEFAULT_SIGMA_MM,
       subsidenceThresholdMm: 2,
       instabilityCriterion: 'white-panjabi-1990',
+      cornerSuggestions: 'on',
+      cornerSearchRadiusMm: 3,
+      cornerSearchRadiusPx: 20,
       invitationLifetimeHours: 72,
     })
   })
