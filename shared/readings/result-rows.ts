@@ -721,8 +721,21 @@ export interface WorkspaceResultsInput {
   }
 }
 
-/** The sections the results panel shows for a template, in reading order. */
+/**
+ * The sections the results panel (and a report) shows for a template, in reading order, every
+ * source already in words: no screen or report can show an evidence tag by forgetting to.
+ */
 export function workspaceResultSections(input: WorkspaceResultsInput): ResultSection[] {
+  return templateSections(input).map((section) => ({
+    ...section,
+    rows: section.rows.map((row) => ({ ...row, source: sourceWords(row.source) })),
+    flags: section.flags.map((flag) =>
+      flag.source === undefined ? flag : { ...flag, source: sourceWords(flag.source) },
+    ),
+  }))
+}
+
+function templateSections(input: WorkspaceResultsInput): ResultSection[] {
   const segment = input.options.segment ?? 'L5-S1'
   switch (input.template) {
     case 'slip-grade':

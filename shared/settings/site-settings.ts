@@ -7,6 +7,7 @@ import { DEFAULT_SIGMA_MM } from '../measurement/uncertainty'
 import { DEFAULT_SUBSIDENCE_THRESHOLD_MM } from '../measurement/subsidence'
 import { INSTABILITY_CRITERIA } from '../measurement/motion-pair'
 import type { InstabilityCriterionId } from '../types/measurement'
+import { sourceWords } from '../readings/source-words'
 
 export interface NumberSettingSpec {
   kind: 'number'
@@ -30,16 +31,6 @@ export interface ChoiceSettingSpec<T extends string = string> {
 }
 
 export type SiteSettingSpec = NumberSettingSpec | ChoiceSettingSpec
-
-/** Plain words for the evidence tags of the engine's citations: a reader sees no code letters. */
-export function plainCitation(source: string): string {
-  return source
-    .replace(/\s*\[V for the paper; M for the thresholds\]/g, ' (thresholds from memory, verify)')
-    .replace(/\s*\[V-sec\]/g, ' (through a secondary source)')
-    .replace(/\s*\[M\]/g, ' (from memory, verify)')
-    .replace(/\s*\[D\]/g, ' (derived)')
-    .replace(/\s*\[V\]/g, '')
-}
 
 const CRITERION_LABELS: Record<InstabilityCriterionId, string> = {
   'white-panjabi-1990':
@@ -78,7 +69,7 @@ export const SITE_SETTINGS = {
     choices: INSTABILITY_CRITERIA.map((criterion) => ({
       value: criterion.id,
       label: CRITERION_LABELS[criterion.id],
-      source: plainCitation(criterion.source),
+      source: sourceWords(criterion.source),
     })),
     default: 'white-panjabi-1990',
   } satisfies ChoiceSettingSpec<InstabilityCriterionId>,

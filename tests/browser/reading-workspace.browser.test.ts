@@ -11,7 +11,7 @@ import { openTestDb, truncateAll } from '../support/test-db'
 import { createTestUser, testConfig, type TestUser } from '../support/test-app'
 import { insertTestPatient, insertTestVisit } from '../support/fixtures'
 import { smallPhantomFiles } from '../support/phantom-files'
-import { launchBrowser, screenshotPath, startAppServer } from '../support/browser'
+import { launchBrowser, screenshotPath, sourceTagsShown, startAppServer } from '../support/browser'
 
 let db: Db
 let browser: BrowserContext
@@ -187,6 +187,7 @@ describe('Reading workspace in Chromium', () => {
       .toContain('Saved')
     await page.mouse.move(5, 5)
     await page.screenshot({ path: screenshotPath('workspace-slip-grade') })
+    expect(await sourceTagsShown(page, '.results')).toEqual([])
     await page.close()
   })
 
@@ -465,6 +466,7 @@ describe('Reading workspace in Chromium', () => {
     const pi = parseNumber(await resultValue(page, 'pi'))
     expect(Math.abs(pi - expected.pelvis!.incidenceDeg!)).toBeLessThan(0.1)
     await page.screenshot({ path: screenshotPath('workspace-lumbar-alignment') })
+    expect(await sourceTagsShown(page, '.results')).toEqual([])
     // Invert goes through the full-depth window in the worker; the film is redrawn.
     await page.getByRole('button', { name: 'Invert' }).click()
     await page.getByRole('button', { name: 'Inverted' }).waitFor()
@@ -495,6 +497,7 @@ describe('Reading workspace in Chromium', () => {
     await page.locator('[data-result="L5-S1-cage"]').waitFor()
     expect(await resultValue(page, 'L5-S1-cage')).toMatch(/°$/)
     await page.screenshot({ path: screenshotPath('workspace-construct-check') })
+    expect(await sourceTagsShown(page, '.results')).toEqual([])
     await page.close()
   })
 
@@ -526,6 +529,7 @@ describe('Reading workspace in Chromium', () => {
     const rom = parseNumber(await resultValue(page, 'rom'))
     expect(Math.abs(rom - 14)).toBeLessThan(0.5)
     await page.screenshot({ path: screenshotPath('workspace-motion-pair') })
+    expect(await sourceTagsShown(page, '.results')).toEqual([])
     await page.close()
   })
 })

@@ -1,7 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import {
   defaultSiteSettings,
-  plainCitation,
   resolveSiteSettings,
   SITE_SETTINGS,
   siteSettingProblem,
@@ -45,9 +44,8 @@ describe('site settings', () => {
     ).toEqual({ ...defaultSiteSettings(), landmarkSigmaMm: 2 })
   })
 
-  it('turns evidence tags into words', () => {
-    expect(plainCitation('Smith 2001 [M]; Jones 2002 [V]; angle [D]')).toBe(
-      'Smith 2001 (from memory, verify); Jones 2002; angle (derived)',
-    )
+  it('shows each criterion with its source in words, no evidence tag', () => {
+    for (const choice of SITE_SETTINGS.instabilityCriterion.choices)
+      expect(choice.source).not.toMatch(/\[|\]/)
   })
 })
