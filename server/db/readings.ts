@@ -3,7 +3,12 @@ import { TABLES } from './tables'
 import { parseJson, toBoolean, toIsoDateTime, toIsoDateTimeOrNull } from './rows'
 import type { ReadingStatus, ReadingTemplate } from '../../shared/types/domain'
 import type { LandmarkDocument } from '../../shared/types/landmarks'
-import type { Reading, ReadingCalibration, ReadingResults } from '../../shared/types/readings'
+import type {
+  Reading,
+  ReadingCalibration,
+  ReadingResults,
+  SuggestionUse,
+} from '../../shared/types/readings'
 import type { TemplateOptions } from '../../shared/readings/templates'
 
 /** A stored reading: the API's Reading with its timestamps always present. */
@@ -24,6 +29,7 @@ const COLUMNS = [
   'r.template_options',
   'r.landmarks',
   'r.paired_landmarks',
+  'r.suggestion_use',
   'r.calibration',
   'r.paired_calibration',
   'r.results',
@@ -60,6 +66,7 @@ function toReading(row: RawRow): ReadingRecord {
     options: parseJson<TemplateOptions>(row.template_options) ?? {},
     landmarks: parseJson<LandmarkDocument>(row.landmarks) ?? { points: {} },
     pairedLandmarks: parseJson<LandmarkDocument>(row.paired_landmarks),
+    suggestionUse: parseJson<SuggestionUse>(row.suggestion_use) ?? { points: {} },
     calibration: parseJson<ReadingCalibration>(row.calibration) ?? {
       mmPerPixel: null,
       source: 'none',
@@ -135,6 +142,8 @@ export interface NewReading extends ReadingComputation {
   options: TemplateOptions
   /** An amendment: the signed reading it replaces once signed, and why. */
   supersedes?: { id: number; reason: string }
+  /** An amendment starts from the amended reading's landmarks, and so from their history. */
+  suggestionUse?: SuggestionUse
 }
 
 function computationColumns(computation: ReadingComputation) {
@@ -162,6 +171,7 @@ export async function insertReading(db: Db, reading: NewReading): Promise<number
     template_options: JSON.stringify(reading.options),
     supersedes_id: reading.supersedes?.id ?? null,
     supersede_reason: reading.supersedes?.reason ?? null,
+    suggestion_use: reading.suggestionUse ? JSON.stringify(reading.suggestionUse) : null,
     ...computationColumns(reading),
   })
   return id as number
@@ -176,12 +186,14 @@ export async function updateDraftReading(
   id: number,
   expectedVersion: number,
   computation: ReadingComputation,
+  suggestionUse: SuggestionUse,
 ): Promise<boolean> {
   const changed = await db(TABLES.readings)
     .where({ id, version: expectedVersion })
     .whereIn('status', EDITABLE)
     .update({
       ...computationColumns(computation),
+      suggestion_use: JSON.stringify(suggestionUse),
       version: db.raw('version + 1'),
       updated_at: new Date(),
     })

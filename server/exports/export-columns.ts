@@ -8,7 +8,7 @@ import type {
 } from '../../shared/types/measurement'
 import { SOURCES } from '../../shared/measurement/sources'
 import { deidentifiedAgeInYears } from '../db/rows'
-import { plainCitation } from './plain-citation'
+import { sourceWords } from '../../shared/readings/source-words'
 
 /** One reading as the export query reads it (identified fields included; columns choose). */
 export interface ExportReading {
@@ -90,7 +90,7 @@ const column = (
   unit,
   kind,
   definition,
-  source: plainCitation(source),
+  source: sourceWords(source),
   ...(identified ? { identified } : {}),
   value: (context) => value(context) ?? null,
 })

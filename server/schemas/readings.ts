@@ -151,9 +151,27 @@ export const createReadingBody = z
     }
   }) satisfies z.ZodType<CreateReadingInput>
 
+/** Landmark name → whether its suggestion was accepted; names are checked by the service. */
+const acceptance = z
+  .record(
+    z
+      .string()
+      .min(1, 'a landmark name cannot be empty')
+      .max(40, 'a landmark name is at most 40 characters'),
+    z.boolean({ error: 'must be true (suggestion accepted) or false (own point kept)' }),
+    { error: 'must be an object of landmark name → true or false' },
+  )
+  .refine((value) => Object.keys(value).length <= 120, 'holds at most 120 landmarks')
+
+const suggestionUse = z.strictObject(
+  { points: acceptance, pairedPoints: acceptance.optional() },
+  { error: 'must be { points, pairedPoints? } of landmark name → true or false' },
+)
+
 export const patchReadingBody = z.strictObject({
   points,
   pairedPoints: points.optional(),
+  suggestionUse: suggestionUse.optional(),
   version,
 }) satisfies z.ZodType<PatchReadingInput>
 

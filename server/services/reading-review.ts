@@ -129,6 +129,7 @@ export async function amendReading(
       template: original.template,
       options: original.options,
       supersedes: { id, reason },
+      suggestionUse: original.suggestionUse,
       ...computation,
     })
     await audit(

@@ -24,7 +24,13 @@ import {
 import { submitRefusal } from '../../shared/readings/reading-rules'
 import type { ReadingTemplate } from '../../shared/types/domain'
 import type { PixelPoint } from '../../shared/types/landmarks'
-import type { CreateReadingInput, PatchReadingInput, Reading } from '../../shared/types/readings'
+import type {
+  CreateReadingInput,
+  PatchReadingInput,
+  Reading,
+  SuggestionAcceptance,
+  SuggestionUse,
+} from '../../shared/types/readings'
 import { actorIdentifies, audit, type Actor } from './audit'
 import { loadVisibleImage } from './images'
 import { calibrationOf, computeReadingResults, landmarkDocument } from './readings-results'
@@ -115,6 +121,48 @@ function checkPoints(
       )
     }
   }
+}
+
+/** A suggestion can only have been accepted or declined for a landmark that is placed. */
+function checkedSuggestionUse(
+  use: SuggestionUse,
+  points: Points,
+  pairedPoints: Points | null,
+): SuggestionUse {
+  const check = (field: 'points' | 'pairedPoints', entries: SuggestionAcceptance, on: Points) => {
+    for (const name of Object.keys(entries)) {
+      if (!(name in on)) {
+        throw badRequest(`suggestionUse.${field}.${name}: no landmark ${name} is placed`, {
+          [`suggestionUse.${field}.${name}`]: [
+            `suggestionUse.${field}.${name}: not a placed landmark`,
+          ],
+        })
+      }
+    }
+  }
+  check('points', use.points, points)
+  if (use.pairedPoints !== undefined) {
+    if (pairedPoints === null) {
+      throw badRequest('suggestionUse.pairedPoints: apply to motion-pair readings only', {
+        'suggestionUse.pairedPoints': ['suggestionUse.pairedPoints: motion-pair readings only'],
+      })
+    }
+    check('pairedPoints', use.pairedPoints, pairedPoints)
+  }
+  return use
+}
+
+/** A save without suggestion entries keeps the stored ones of landmarks still placed. */
+function keptSuggestionUse(
+  stored: SuggestionUse,
+  points: Points,
+  pairedPoints: Points | null,
+): SuggestionUse {
+  const keep = (entries: SuggestionAcceptance | undefined, on: Points) =>
+    Object.fromEntries(Object.entries(entries ?? {}).filter(([name]) => name in on))
+  return pairedPoints === null
+    ? { points: keep(stored.points, points) }
+    : { points: keep(stored.points, points), pairedPoints: keep(stored.pairedPoints, pairedPoints) }
 }
 
 interface ComputeContext {
@@ -426,6 +474,9 @@ export async function patchReading(
   const pairedPoints = patch.pairedPoints ?? reading.pairedLandmarks?.points ?? null
   if (pairedImage && patch.pairedPoints)
     checkPoints('pairedPoints', patch.pairedPoints, reading.template, reading.options, pairedImage)
+  const suggestionUse = patch.suggestionUse
+    ? checkedSuggestionUse(patch.suggestionUse, patch.points, pairedPoints)
+    : keptSuggestionUse(reading.suggestionUse, patch.points, pairedPoints)
   return guardedWrite(db, 'edit', id, actor, patch.version, async (trx) => {
     const computation = await compute(trx, {
       readingId: id,
@@ -436,7 +487,7 @@ export async function patchReading(
       points: patch.points,
       pairedPoints,
     })
-    if (!(await updateDraftReading(trx, id, patch.version, computation)))
+    if (!(await updateDraftReading(trx, id, patch.version, computation, suggestionUse)))
       throw new GuardedWriteRefused()
     const main = changeCount(reading.landmarks.points, patch.points)
     const paired = changeCount(reading.pairedLandmarks?.points ?? {}, pairedPoints ?? {})

@@ -9,7 +9,8 @@ import {
   computeUncertainty,
 } from '../../shared/measurement/index'
 import { readingOverlayShapes } from '../../shared/overlays/reading-overlays'
-import { SPACING_SOURCE_LABELS, workspaceResultSections } from '../../shared/readings/result-rows'
+import { workspaceResultSections } from '../../shared/readings/result-rows'
+import { SPACING_SOURCE_LABELS } from '../../shared/format/spacing-source-labels'
 import { TEMPLATE_LABELS } from '../../shared/readings/templates'
 import { unsignedStamp } from '../../shared/reports/cautions'
 import { reportFilmCrop } from '../../shared/reports/film-crop'

@@ -24,24 +24,10 @@ import {
   SOURCES,
 } from '../measurement/index'
 import { sourceWords } from './source-words'
+import { numberText, numberWithUnit } from '../format/number-text'
+import { SPACING_SOURCE_SHORT } from '../format/spacing-source-labels'
 
-/** Where a film's mm scale comes from, in the words shown beside every mm value. */
-export const SPACING_SOURCE_LABELS: Record<SpacingSource, string> = {
-  'dicom-pixel-spacing': 'DICOM pixel spacing, calibrated in the patient',
-  manual: 'manual calibration',
-  'dicom-imager-spacing-magnification': 'imager spacing ÷ magnification (estimated)',
-  'dicom-imager-spacing': 'imager spacing at the detector (magnified, typically 10–25 %)',
-  none: 'no calibration',
-}
-
-/** The same, short enough to sit under each mm value. */
-export const SPACING_SOURCE_SHORT: Record<SpacingSource, string> = {
-  'dicom-pixel-spacing': 'DICOM spacing (in patient)',
-  manual: 'manual calibration',
-  'dicom-imager-spacing-magnification': 'estimated spacing',
-  'dicom-imager-spacing': 'detector spacing, magnified',
-  none: 'uncalibrated',
-}
+export { SPACING_SOURCE_LABELS, SPACING_SOURCE_SHORT } from '../format/spacing-source-labels'
 
 export interface ResultRow {
   id: string
@@ -86,15 +72,10 @@ export interface FilmResults {
 
 type SegmentIntervals = IntervalTree<SegmentMeasurement> | undefined
 
-function fixed(value: number, digits: number): string {
-  // −0.0 reads as a sign error; show 0.0.
-  const text = value.toFixed(digits)
-  return /^-0\.?0*$/.test(text) ? text.slice(1) : text.replace('-', '−')
-}
+const fixed = numberText
 
 function withUnit(value: number | null | undefined, digits: number, unit: string): string {
-  if (value === null || value === undefined || !Number.isFinite(value)) return '—'
-  return unit === '°' ? `${fixed(value, digits)}°` : `${fixed(value, digits)} ${unit}`
+  return numberWithUnit(value, digits, unit) ?? '—'
 }
 
 function halfWidth(
@@ -733,8 +714,21 @@ export interface WorkspaceResultsInput {
   }
 }
 
-/** The sections the results panel shows for a template, in reading order. */
+/**
+ * The sections the results panel (and a report) shows for a template, in reading order, every
+ * source already in words: no screen or report can show an evidence tag by forgetting to.
+ */
 export function workspaceResultSections(input: WorkspaceResultsInput): ResultSection[] {
+  return templateSections(input).map((section) => ({
+    ...section,
+    rows: section.rows.map((row) => ({ ...row, source: sourceWords(row.source) })),
+    flags: section.flags.map((flag) =>
+      flag.source === undefined ? flag : { ...flag, source: sourceWords(flag.source) },
+    ),
+  }))
+}
+
+function templateSections(input: WorkspaceResultsInput): ResultSection[] {
   const segment = input.options.segment ?? 'L5-S1'
   switch (input.template) {
     case 'slip-grade':

@@ -1,17 +1,17 @@
 import type { ValueWithInterval } from '../types/compare'
-import { overlayNumberText } from '../overlays/overlay-labels'
+import { numberWithUnit } from '../format/number-text'
 
 /** Decimal places shown for each unit (one place resolves well below placement error). */
 const DIGITS: Record<string, number> = { '%': 1, '°': 1, mm: 1, px: 0 }
 
 /** "27.0°", "25.0 %", "8.1 mm"; "—" for a missing value. True minus signs. */
 export function measureText(value: number | null | undefined, unit: string): string {
-  return overlayNumberText(value, DIGITS[unit] ?? 1, unit) ?? '—'
+  return numberWithUnit(value, DIGITS[unit] ?? 1, unit) ?? '—'
 }
 
 /** "± 5.6°": the 95 % half-width with its unit; empty when there is none. */
 export function halfWidthText(halfWidth95: number | null | undefined, unit: string): string {
-  const text = overlayNumberText(halfWidth95, DIGITS[unit] ?? 1, unit)
+  const text = numberWithUnit(halfWidth95, DIGITS[unit] ?? 1, unit)
   return text === null ? '' : `± ${text}`
 }
 

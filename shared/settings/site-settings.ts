@@ -8,6 +8,7 @@ import { DEFAULT_SUBSIDENCE_THRESHOLD_MM } from '../measurement/subsidence'
 import { INSTABILITY_CRITERIA } from '../measurement/motion-pair'
 import { DEFAULT_IMPLANT_CENTRING_THRESHOLD_MM } from '../measurement/implant-centring'
 import type { InstabilityCriterionId } from '../types/measurement'
+import { sourceWords } from '../readings/source-words'
 
 export interface NumberSettingSpec {
   kind: 'number'
@@ -33,16 +34,6 @@ export interface ChoiceSettingSpec<T extends string = string> {
 }
 
 export type SiteSettingSpec = NumberSettingSpec | ChoiceSettingSpec
-
-/** Plain words for the evidence tags of the engine's citations: a reader sees no code letters. */
-export function plainCitation(source: string): string {
-  return source
-    .replace(/\s*\[V for the paper; M for the thresholds\]/g, ' (thresholds from memory, verify)')
-    .replace(/\s*\[V-sec\]/g, ' (through a secondary source)')
-    .replace(/\s*\[M\]/g, ' (from memory, verify)')
-    .replace(/\s*\[D\]/g, ' (derived)')
-    .replace(/\s*\[V\]/g, '')
-}
 
 const CRITERION_LABELS: Record<InstabilityCriterionId, string> = {
   'white-panjabi-1990':
@@ -81,7 +72,7 @@ export const SITE_SETTINGS = {
     choices: INSTABILITY_CRITERIA.map((criterion) => ({
       value: criterion.id,
       label: CRITERION_LABELS[criterion.id],
-      source: plainCitation(criterion.source),
+      source: sourceWords(criterion.source),
     })),
     default: 'white-panjabi-1990',
   } satisfies ChoiceSettingSpec<InstabilityCriterionId>,
@@ -96,9 +87,45 @@ export const SITE_SETTINGS = {
     integer: false,
     default: DEFAULT_IMPLANT_CENTRING_THRESHOLD_MM,
     // The reference's default (measurement-reference §11), a value cited from memory there.
-    source: plainCitation(
+    source: sourceWords(
       'McAfee et al. 2005, Spine 30:1576: ideal placement within 3 mm of the midline [M]',
     ),
+  },
+  cornerSuggestions: {
+    kind: 'choice',
+    label: 'Corner suggestions while placing landmarks',
+    help: 'After a landmark is placed or moved, the workspace may mark the corner of the image it most likely meant; the rater accepts it (Enter, or a click on the mark) or keeps their own point.',
+    choices: [
+      {
+        value: 'on',
+        label: 'Suggest a corner',
+        source: 'Searched on the full-depth pixels; a point moves only when the rater accepts.',
+      },
+      { value: 'off', label: 'No suggestions', source: 'Every landmark is placed by eye alone.' },
+    ],
+    default: 'on',
+  } satisfies ChoiceSettingSpec<'on' | 'off'>,
+  cornerSearchRadiusMm: {
+    kind: 'number',
+    label: 'Corner search radius',
+    help: 'How far from a placed landmark a corner is looked for on a calibrated film.',
+    unit: 'mm',
+    min: 0.5,
+    max: 10,
+    step: 0.5,
+    integer: false,
+    default: 3,
+  },
+  cornerSearchRadiusPx: {
+    kind: 'number',
+    label: 'Corner search radius without a mm scale',
+    help: 'The same radius on a film with no calibration, in image pixels.',
+    unit: 'px',
+    min: 4,
+    max: 100,
+    step: 1,
+    integer: true,
+    default: 20,
   },
   invitationLifetimeHours: {
     kind: 'number',

@@ -49,6 +49,19 @@ export interface ResultSettings {
   implantCentringThresholdMm: number
 }
 
+/**
+ * Per landmark name: true when the rater accepted the corner the image suggested for its current
+ * position, false when a suggestion was shown and the rater kept their own point. A landmark
+ * placed with no suggestion (suggestions off, or no corner found) has no entry.
+ */
+export type SuggestionAcceptance = Record<string, boolean>
+
+export interface SuggestionUse {
+  points: SuggestionAcceptance
+  /** Motion pair only: the extension film. */
+  pairedPoints?: SuggestionAcceptance
+}
+
 export interface Reading {
   id: number
   imageId: number
@@ -61,6 +74,8 @@ export interface Reading {
   landmarks: LandmarkDocument
   /** Motion pair only: landmarks on the extension film. */
   pairedLandmarks: LandmarkDocument | null
+  /** Which landmarks were placed by accepting a suggestion of the image (none shown on screen). */
+  suggestionUse: SuggestionUse
   calibration: ReadingCalibration
   pairedCalibration: ReadingCalibration | null
   results: ReadingResults
@@ -178,6 +193,8 @@ export interface CreateReadingInput {
 export interface PatchReadingInput {
   points: Record<string, PixelPoint>
   pairedPoints?: Record<string, PixelPoint>
+  /** Whether each landmark's suggestion was accepted; omitted keeps the stored entries. */
+  suggestionUse?: SuggestionUse
   /** The version the edit was based on; a stale one answers 409 with the current reading. */
   version: number
 }

@@ -1,5 +1,7 @@
 import { computed, onScopeDispose, ref, shallowRef, watch, type Ref } from 'vue'
 import type { ImageRecord } from '@shared/types/api'
+import type { Reading, ResultSettings } from '@shared/types/readings'
+import type { SiteSettingValues } from '@shared/settings/site-settings'
 import type { LandmarkDocument, PixelPoint } from '@shared/types/landmarks'
 import type {
   MeasurementResult,
@@ -42,6 +44,39 @@ function measure(doc: LandmarkDocument): {
   } catch (caught) {
     return { measurements: null, error: caught instanceof Error ? caught.message : String(caught) }
   }
+}
+
+/** A signed (or superseded) reading shows what was signed; every other one computes as now. */
+export function isFrozen(reading: Pick<Reading, 'status'> | null): boolean {
+  return reading?.status === 'signed' || reading?.status === 'superseded'
+}
+
+/**
+ * The settings the live results compute with: the site's, as the server uses them (GET
+ * /api/settings), or for a frozen reading those it was computed with.
+ */
+export function resultSettingsInForce(
+  site: SiteSettingValues,
+  reading: Pick<Reading, 'status' | 'results'> | null,
+): ResultSettings {
+  const frozen = isFrozen(reading) ? reading?.results.computedWith : undefined
+  return {
+    landmarkSigmaMm: frozen?.landmarkSigmaMm ?? site.landmarkSigmaMm,
+    subsidenceThresholdMm: frozen?.subsidenceThresholdMm ?? site.subsidenceThresholdMm,
+    instabilityCriterion: frozen?.instabilityCriterion ?? site.instabilityCriterion,
+    implantCentringThresholdMm:
+      frozen?.implantCentringThresholdMm ?? site.implantCentringThresholdMm,
+  }
+}
+
+/** The film as the results use it: a frozen reading keeps the spacing it was computed with. */
+export function filmAsComputed(
+  record: ImageRecord | null,
+  reading: Pick<Reading, 'status'> | null,
+  calibration: Reading['calibration'] | null | undefined,
+): ImageRecord | null {
+  if (!record || !isFrozen(reading) || !calibration) return record
+  return { ...record, mmPerPixel: calibration.mmPerPixel, spacingSource: calibration.source }
 }
 
 /** While dragging, intervals are refreshed at most this often (a few engine runs per frame

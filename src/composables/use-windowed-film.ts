@@ -30,6 +30,8 @@ export function useWindowedFilm(film: Ref<ImageRecord | null>) {
   const filmWindow = ref<FilmWindow>({ center: 32768, width: 65536, invert: false })
   /** When the first picture of the film was on screen (performance.now()). */
   const firstPaintAt = ref<number | null>(null)
+  /** A copy of the full-depth PNG for the corner-suggestion worker (which takes it over). */
+  const fullDepthBytes = shallowRef<ArrayBuffer | null>(null)
 
   let worker: Worker | null = null
   let busy = false
@@ -65,6 +67,7 @@ export function useWindowedFilm(film: Ref<ImageRecord | null>) {
     fullDepth.value = false
     error.value = null
     source.value = null
+    fullDepthBytes.value = null
     if (record.window)
       filmWindow.value = { center: record.window.center, width: record.window.width, invert: false }
     try {
@@ -109,6 +112,7 @@ export function useWindowedFilm(film: Ref<ImageRecord | null>) {
           error.value = message.message
         }
       }
+      fullDepthBytes.value = buffer.slice(0)
       const request: FilmWindowRequest = { type: 'decode', buffer }
       worker.postMessage(request, [buffer])
     } catch (caught) {
@@ -147,5 +151,14 @@ export function useWindowedFilm(film: Ref<ImageRecord | null>) {
     stopWorker()
   })
 
-  return { source, fullDepth, error, filmWindow, valueRange, firstPaintAt, resetWindow }
+  return {
+    source,
+    fullDepth,
+    error,
+    filmWindow,
+    valueRange,
+    firstPaintAt,
+    fullDepthBytes,
+    resetWindow,
+  }
 }

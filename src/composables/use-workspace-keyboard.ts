@@ -6,6 +6,8 @@ export interface WorkspaceKeyActions {
   remove(): void
   step(direction: 1 | -1): void
   escape(): void
+  /** Enter: accept what is offered (a corner suggestion); false when nothing is. */
+  accept(): boolean
 }
 
 function isTyping(target: EventTarget | null): boolean {
@@ -20,9 +22,14 @@ function inToolbar(target: EventTarget | null): boolean {
   return Boolean((target as HTMLElement | null)?.closest?.('.top-bar, .film-controls, .app-header'))
 }
 
+function onControl(target: EventTarget | null): boolean {
+  return Boolean((target as HTMLElement | null)?.closest?.('button, a, [role="button"]'))
+}
+
 /**
  * Workspace shortcuts: Ctrl/⌘-Z undo, Ctrl/⌘-Shift-Z and Ctrl/⌘-Y redo, Delete/Backspace remove
- * the selected landmark, Tab/Shift-Tab step through the checklist, Escape stop placing, Space
+ * the selected landmark, Tab/Shift-Tab step through the checklist, Enter accept a corner
+ * suggestion (a focused button keeps its Enter), Escape stop placing, Space
  * held pan. Keys typed into a field are left alone, and so is everything while a dialog is open.
  * A screen that edits nothing passes only the actions it has: keys without one keep their usual
  * browser meaning (Tab still moves focus), and Space held still pans.
@@ -37,7 +44,7 @@ export function useWorkspaceKeyboard(
     if (!enabled() || isTyping(event.target) || document.querySelector('.p-dialog-mask')) return
     const command = event.ctrlKey || event.metaKey
     const key = event.key.toLowerCase()
-    const { undo, redo, remove, step, escape } = actions
+    const { undo, redo, remove, step, escape, accept } = actions
     if (command && key === 'z' && undo && redo) {
       event.preventDefault()
       if (event.shiftKey) redo()
@@ -52,6 +59,8 @@ export function useWorkspaceKeyboard(
       // Tab steps through landmarks; in the bars it still moves focus between controls.
       event.preventDefault()
       step(event.shiftKey ? -1 : 1)
+    } else if (event.key === 'Enter' && accept && !onControl(event.target)) {
+      if (accept()) event.preventDefault()
     } else if (event.key === 'Escape' && escape) {
       escape()
     } else if (event.key === ' ') {

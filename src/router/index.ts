@@ -1,6 +1,7 @@
 import {
   createRouter,
   createWebHistory,
+  type RouteLocationNormalized,
   type RouteLocationRaw,
   type RouteRecordRaw,
 } from 'vue-router'
@@ -8,27 +9,9 @@ import type { Permission } from '@shared/types/permissions'
 import { useSessionStore } from '@/stores/session'
 import SignInView from '@/views/SignInView.vue'
 
-/** Every route name; navigation goes by name so a typo does not compile. */
-export type RouteName =
-  | 'sign-in'
-  | 'worklist'
-  | 'patients'
-  | 'patient'
-  | 'reading-workspace'
-  | 'assignment-workspace'
-  | 'round-results'
-  | 'studies'
-  | 'study'
-  | 'administration'
-  | 'mail'
-  | 'invitation'
-  | 'password-reset-request'
-  | 'password-reset'
-  | 'not-found'
-  | 'compare'
-  | 'compare-print'
-  | 'reading-report'
-  | 'visit-report'
+import type { RouteName, RouteNamedMap } from './route-map'
+
+export type { RouteName } from './route-map'
 
 declare module 'vue-router' {
   interface RouteMeta {
@@ -40,6 +23,14 @@ declare module 'vue-router' {
   }
 }
 
+/**
+ * A route's numeric id param. The props functions see every route's params (a union), so the
+ * param is named here; the typed map (./route-map.ts) guarantees the route has it.
+ */
+function idParam(route: RouteLocationNormalized, name: string): number {
+  return Number((route.params as Record<string, string | string[] | undefined>)[name])
+}
+
 /** Ids from a query value written "12,15"; anything that is not a positive integer is dropped. */
 function idsOf(value: unknown): number[] {
   const text = Array.isArray(value) ? value.join(',') : typeof value === 'string' ? value : ''
@@ -49,7 +40,12 @@ function idsOf(value: unknown): number[] {
     .filter((id) => Number.isSafeInteger(id) && id > 0)
 }
 
-const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
+/** A record named after one of the typed routes (./route-map.ts), with that route's path. */
+type TypedRecord = {
+  [Name in RouteName]: RouteRecordRaw & { name: Name; path: RouteNamedMap[Name]['path'] }
+}[RouteName]
+
+const routes: TypedRecord[] = [
   {
     path: '/sign-in',
     name: 'sign-in',
@@ -92,28 +88,28 @@ const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
     path: '/patients/:patientId',
     name: 'patient',
     component: () => import('@/views/PatientView.vue'),
-    props: (route) => ({ patientId: Number(route.params.patientId) }),
+    props: (route) => ({ patientId: idParam(route, 'patientId') }),
     meta: { permission: 'patient:read', title: 'Patient' },
   },
   {
     path: '/readings/:readingId',
     name: 'reading-workspace',
     component: () => import('@/views/ReadingWorkspaceView.vue'),
-    props: (route) => ({ readingId: Number(route.params.readingId) }),
+    props: (route) => ({ readingId: idParam(route, 'readingId') }),
     meta: { permission: 'patient:read', title: 'Reading' },
   },
   {
     path: '/assignments/:assignmentId',
     name: 'assignment-workspace',
     component: () => import('@/views/ReadingWorkspaceView.vue'),
-    props: (route) => ({ assignmentId: Number(route.params.assignmentId) }),
+    props: (route) => ({ assignmentId: idParam(route, 'assignmentId') }),
     meta: { permission: 'round:rate', title: 'Blinded reading' },
   },
   {
     path: '/rounds/:roundId/results',
     name: 'round-results',
     component: () => import('@/views/RoundResultsView.vue'),
-    props: (route) => ({ roundId: Number(route.params.roundId) }),
+    props: (route) => ({ roundId: idParam(route, 'roundId') }),
     meta: { permission: 'round:read', title: 'Round results' },
   },
   {
@@ -121,7 +117,7 @@ const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
     name: 'compare',
     component: () => import('@/views/CompareView.vue'),
     props: (route) => ({
-      patientId: Number(route.params.patientId),
+      patientId: idParam(route, 'patientId'),
       images: idsOf(route.query.images),
       readings: idsOf(route.query.readings),
     }),
@@ -132,7 +128,7 @@ const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
     name: 'compare-print',
     component: () => import('@/views/ComparePrintView.vue'),
     props: (route) => ({
-      patientId: Number(route.params.patientId),
+      patientId: idParam(route, 'patientId'),
       images: idsOf(route.query.images),
       readings: idsOf(route.query.readings),
     }),
@@ -142,14 +138,14 @@ const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
     path: '/readings/:readingId/report',
     name: 'reading-report',
     component: () => import('@/views/ReportPrintView.vue'),
-    props: (route) => ({ kind: 'reading', id: Number(route.params.readingId) }),
+    props: (route) => ({ kind: 'reading', id: idParam(route, 'readingId') }),
     meta: { permission: 'patient:read', title: 'Reading report' },
   },
   {
     path: '/visits/:visitId/report',
     name: 'visit-report',
     component: () => import('@/views/ReportPrintView.vue'),
-    props: (route) => ({ kind: 'visit', id: Number(route.params.visitId) }),
+    props: (route) => ({ kind: 'visit', id: idParam(route, 'visitId') }),
     meta: { permission: 'patient:read', title: 'Visit report' },
   },
   {
@@ -162,7 +158,7 @@ const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
     path: '/studies/:studyId',
     name: 'study',
     component: () => import('@/views/StudyView.vue'),
-    props: (route) => ({ studyId: Number(route.params.studyId) }),
+    props: (route) => ({ studyId: idParam(route, 'studyId') }),
     meta: { permission: 'study:read', title: 'Study' },
   },
   {

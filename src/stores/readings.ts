@@ -2,7 +2,12 @@ import { computed, ref } from 'vue'
 import { defineStore } from 'pinia'
 import type { ImageRecord, SessionUser, Visit } from '@shared/types/api'
 import type { PixelPoint } from '@shared/types/landmarks'
-import type { Reading, ReadingComment } from '@shared/types/readings'
+import type {
+  Reading,
+  ReadingComment,
+  SuggestionAcceptance,
+  SuggestionUse,
+} from '@shared/types/readings'
 import { templateLandmarks, templateNeedsPairedImage } from '@shared/readings/templates'
 import { readingActionRefusal, type ReadingAction } from '@shared/readings/reading-status'
 import { missingRequiredLandmarks, submitRefusal } from '@shared/readings/reading-rules'
@@ -39,6 +44,18 @@ export interface BlindContext {
 interface Snapshot {
   points: PointMap
   pairedPoints: PointMap
+  accepted: SuggestionAcceptance
+  pairedAccepted: SuggestionAcceptance
+}
+
+/** A corner the image suggests for a placed landmark, waiting for the rater's Enter or Escape. */
+export interface PendingSuggestion {
+  name: string
+  side: FilmSide
+  /** Where the rater put the landmark (the suggestion stands only while it is still there). */
+  from: PixelPoint
+  /** The suggested corner, image px. */
+  at: PixelPoint
 }
 
 /** Quiet time after the last edit before a draft is sent. */
@@ -64,6 +81,11 @@ function samePoints(a: PointMap, b: PointMap): boolean {
   })
 }
 
+function sameAcceptance(a: SuggestionAcceptance, b: SuggestionAcceptance): boolean {
+  const names = Object.keys(a)
+  return names.length === Object.keys(b).length && names.every((name) => a[name] === b[name])
+}
+
 function messageOf(caught: unknown): string {
   return caught instanceof Error ? caught.message : String(caught)
 }
@@ -85,6 +107,10 @@ export const useReadingsStore = defineStore('readings', () => {
   const placing = ref(true)
   /** A row picked in the checklist (or by Tab): the next click on the film re-places it. */
   const replacing = ref<string | null>(null)
+  /** Per landmark: accepted the image's suggestion (true) or kept their own point beside one. */
+  const accepted = ref<SuggestionAcceptance>({})
+  const pairedAccepted = ref<SuggestionAcceptance>({})
+  const suggestion = ref<PendingSuggestion | null>(null)
   const undoStack = ref<Snapshot[]>([])
   const redoStack = ref<Snapshot[]>([])
 
@@ -177,6 +203,9 @@ export const useReadingsStore = defineStore('readings', () => {
     reading.value = loaded
     points.value = copyPoints(loaded.landmarks.points)
     pairedPoints.value = copyPoints(loaded.pairedLandmarks?.points ?? {})
+    accepted.value = { ...loaded.suggestionUse.points }
+    pairedAccepted.value = { ...(loaded.suggestionUse.pairedPoints ?? {}) }
+    suggestion.value = null
   }
 
   async function load(readingId: number, blindContext: BlindContext | null = null): Promise<void> {
@@ -279,12 +308,62 @@ export const useReadingsStore = defineStore('readings', () => {
   }
 
   function snapshot(): Snapshot {
-    return { points: copyPoints(points.value), pairedPoints: copyPoints(pairedPoints.value) }
+    return {
+      points: copyPoints(points.value),
+      pairedPoints: copyPoints(pairedPoints.value),
+      accepted: { ...accepted.value },
+      pairedAccepted: { ...pairedAccepted.value },
+    }
   }
 
   function restore(state: Snapshot): void {
     points.value = copyPoints(state.points)
     pairedPoints.value = copyPoints(state.pairedPoints)
+    accepted.value = { ...state.accepted }
+    pairedAccepted.value = { ...state.pairedAccepted }
+    suggestion.value = null
+  }
+
+  const sideAccepted = (side: FilmSide) => (side === 'primary' ? accepted : pairedAccepted)
+
+  /** A landmark placed anew has no suggestion history until one is offered for it. */
+  function forgetSuggestion(name: string, side: FilmSide): void {
+    if (suggestion.value?.name === name && suggestion.value.side === side) suggestion.value = null
+    if (name in sideAccepted(side).value) {
+      const next = { ...sideAccepted(side).value }
+      delete next[name]
+      sideAccepted(side).value = next
+    }
+  }
+
+  /**
+   * The image's answer for a landmark just placed or dropped: shown only while the landmark is
+   * still where it was when asked, and recorded as "own point kept" until the rater accepts.
+   */
+  function offerSuggestion(offer: PendingSuggestion): void {
+    if (readOnly.value) return
+    const current = sidePoints(offer.side).value[offer.name]
+    if (!current || current[0] !== offer.from[0] || current[1] !== offer.from[1]) return
+    suggestion.value = offer
+    sideAccepted(offer.side).value = { ...sideAccepted(offer.side).value, [offer.name]: false }
+    markEdited()
+  }
+
+  /** Enter, or a click on the mark: the landmark moves to the suggestion (one Undo step). */
+  function acceptSuggestion(): void {
+    const offer = suggestion.value
+    if (!offer || readOnly.value) return
+    const before = snapshot()
+    sidePoints(offer.side).value[offer.name] = [offer.at[0], offer.at[1]]
+    sideAccepted(offer.side).value = { ...sideAccepted(offer.side).value, [offer.name]: true }
+    suggestion.value = null
+    selectedName.value = offer.name
+    commitFrom(before)
+  }
+
+  /** Escape: the rater's own point stays, as it does when they simply go on. */
+  function declineSuggestion(): void {
+    suggestion.value = null
   }
 
   function markEdited(): void {
@@ -300,7 +379,9 @@ export const useReadingsStore = defineStore('readings', () => {
   function commitFrom(before: Snapshot): void {
     if (
       samePoints(before.points, points.value) &&
-      samePoints(before.pairedPoints, pairedPoints.value)
+      samePoints(before.pairedPoints, pairedPoints.value) &&
+      sameAcceptance(before.accepted, accepted.value) &&
+      sameAcceptance(before.pairedAccepted, pairedAccepted.value)
     )
       return
     undoStack.value.push(before)
@@ -311,7 +392,9 @@ export const useReadingsStore = defineStore('readings', () => {
   function placePoint(name: string, pointPx: PixelPoint, side: FilmSide = activeSide.value): void {
     if (readOnly.value) return
     const before = snapshot()
+    suggestion.value = null
     sidePoints(side).value[name] = [pointPx[0], pointPx[1]]
+    forgetSuggestion(name, side)
     selectedName.value = name
     replacing.value = null
     commitFrom(before)
@@ -321,6 +404,7 @@ export const useReadingsStore = defineStore('readings', () => {
   function beginDrag(): void {
     if (readOnly.value) return
     dragStart = snapshot()
+    suggestion.value = null
     dragging.value = true
   }
 
@@ -331,7 +415,12 @@ export const useReadingsStore = defineStore('readings', () => {
   }
 
   /** Pointer-up: one history step for the whole drag. */
-  function endDrag(): void {
+  function endDrag(name?: string, side: FilmSide = activeSide.value): void {
+    if (dragStart !== null && name !== undefined) {
+      const start = side === 'primary' ? dragStart.points[name] : dragStart.pairedPoints[name]
+      const now = sidePoints(side).value[name]
+      if (!start || !now || start[0] !== now[0] || start[1] !== now[1]) forgetSuggestion(name, side)
+    }
     if (dragStart !== null) commitFrom(dragStart)
     dragStart = null
     dragging.value = false
@@ -343,6 +432,7 @@ export const useReadingsStore = defineStore('readings', () => {
     const next = { ...sidePoints(side).value }
     delete next[name]
     sidePoints(side).value = next
+    forgetSuggestion(name, side)
     commitFrom(before)
   }
 
@@ -364,6 +454,8 @@ export const useReadingsStore = defineStore('readings', () => {
 
   /** Selects a landmark (clicking it on the film): a click elsewhere then places the next one. */
   function select(name: string | null, side: FilmSide = activeSide.value): void {
+    if (suggestion.value && (suggestion.value.name !== name || suggestion.value.side !== side))
+      suggestion.value = null
     selectedName.value = name
     activeSide.value = side
     replacing.value = null
@@ -404,6 +496,7 @@ export const useReadingsStore = defineStore('readings', () => {
   }
 
   function stopPlacing(): void {
+    suggestion.value = null
     placing.value = false
     selectedName.value = null
     replacing.value = null
@@ -457,9 +550,14 @@ export const useReadingsStore = defineStore('readings', () => {
     clearTimer()
     const revision = editRevision
     saveState.value = 'saving'
+    const suggestionUse: SuggestionUse = {
+      points: { ...accepted.value },
+      ...(isPair.value ? { pairedPoints: { ...pairedAccepted.value } } : {}),
+    }
     const body = {
       points: copyPoints(points.value),
       ...(isPair.value ? { pairedPoints: copyPoints(pairedPoints.value) } : {}),
+      suggestionUse,
       version: current.version,
     }
     inFlight = (async () => {
@@ -568,6 +666,9 @@ export const useReadingsStore = defineStore('readings', () => {
     loadError.value = null
     points.value = {}
     pairedPoints.value = {}
+    accepted.value = {}
+    pairedAccepted.value = {}
+    suggestion.value = null
     activeSide.value = 'primary'
     selectedName.value = null
     placing.value = true
@@ -596,6 +697,9 @@ export const useReadingsStore = defineStore('readings', () => {
     loadError,
     points,
     pairedPoints,
+    accepted,
+    pairedAccepted,
+    suggestion,
     activeSide,
     selectedName,
     placing,
@@ -630,6 +734,9 @@ export const useReadingsStore = defineStore('readings', () => {
     beginDrag,
     dragPoint,
     endDrag,
+    offerSuggestion,
+    acceptSuggestion,
+    declineSuggestion,
     removePoint,
     undo,
     redo,

@@ -43,23 +43,6 @@ export const IMAGE_VIEW_LABELS: Record<import('@shared/types/domain').ImageView,
   ap: 'AP',
 }
 
-/** Where a film's millimetre scale comes from, in words a reader can weigh. */
-export const SPACING_SOURCE_LABELS: Record<import('@shared/types/domain').SpacingSource, string> = {
-  'dicom-pixel-spacing': 'Calibrated in the patient (DICOM Pixel Spacing)',
-  manual: 'Manual calibration on the film',
-  'dicom-imager-spacing-magnification': 'Estimated (detector spacing ÷ magnification factor)',
-  'dicom-imager-spacing': 'At the detector, magnified (typically 10–25 %)',
-  none: 'Not calibrated: angles and percentages only',
-}
-
-export const SPACING_SOURCE_SHORT: Record<import('@shared/types/domain').SpacingSource, string> = {
-  'dicom-pixel-spacing': 'calibrated',
-  manual: 'manual',
-  'dicom-imager-spacing-magnification': 'estimated',
-  'dicom-imager-spacing': 'detector',
-  none: 'uncalibrated',
-}
-
 /** "64 y"; in de-identified data 90 stands for 90 or older and reads "90+ y". */
 export function formatAgeYears(age: number | null, deidentified = false): string {
   if (age === null) return '—'

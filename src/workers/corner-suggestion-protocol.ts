@@ -10,9 +10,11 @@ import {
   type CornerSuggestion,
   type GreyPixels,
 } from '@shared/image-analysis/corner-suggestion'
+import { decodeFilmPng } from './film-png'
 
 export type CornerWorkerRequest =
   | { type: 'film'; width: number; height: number; pixels: Uint16Array }
+  | { type: 'film-png'; buffer: ArrayBuffer }
   | {
       type: 'suggest'
       id: number
@@ -43,6 +45,10 @@ export function createCornerSuggestionHandler(): (
         }
         film = { width: request.width, height: request.height, pixels: request.pixels }
         return { type: 'ready', width: request.width, height: request.height }
+      }
+      if (request.type === 'film-png') {
+        film = decodeFilmPng(new Uint8Array(request.buffer))
+        return { type: 'ready', width: film.width, height: film.height }
       }
       if (!film) throw new Error('No film sent yet')
       const suggestion = suggestCorner(film, [request.x, request.y], {

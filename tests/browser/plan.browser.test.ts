@@ -13,6 +13,7 @@ import { testConfig } from '../support/test-app'
 import {
   launchBrowser,
   screenshotPath,
+  sourceTagsShown,
   openPatientsFromMenu,
   signInThroughForm,
   startAppServer,
@@ -142,6 +143,8 @@ describe('The plan and trends on the Patient screen in Chromium', () => {
       .first()
     expect(row).toMatchObject({ treatment: 'disc-replacement', version: 2 })
     await page.screenshot({ path: screenshotPath('plan-flagged'), fullPage: true })
+    // Checks, their tooltips, the lordosis block and the implant rows: citations in words only.
+    expect(await sourceTagsShown(page, 'main')).toEqual([])
     await page
       .getByRole('region', { name: 'Plan' })
       .screenshot({ path: screenshotPath('plan-table') })

@@ -11,7 +11,7 @@ import { openTestDb, truncateAll } from '../support/test-db'
 import { createTestUser, testConfig, type TestUser } from '../support/test-app'
 import { insertTestPatient, insertTestVisit } from '../support/fixtures'
 import { smallPhantomFiles } from '../support/phantom-files'
-import { launchBrowser, screenshotPath, startAppServer } from '../support/browser'
+import { launchBrowser, screenshotPath, sourceTagsShown, startAppServer } from '../support/browser'
 
 let db: Db
 let browser: BrowserContext
@@ -187,6 +187,69 @@ describe('Reading workspace in Chromium', () => {
       .toContain('Saved')
     await page.mouse.move(5, 5)
     await page.screenshot({ path: screenshotPath('workspace-slip-grade') })
+    expect(await sourceTagsShown(page, '.results')).toEqual([])
+    await page.close()
+  })
+
+  it('suggests the corner near a placed point; a click on it or Enter accepts, Escape keeps the own point', async () => {
+    const { image, truth } = await uploadPhantom('meyerding-2')
+    const reading = await createReading(image.id, {
+      template: 'slip-grade',
+      options: { segment: 'L5-S1' },
+    })
+    const page = await browser.newPage()
+    await openWorkspace(page, reading.id)
+    const surface = page.locator('[data-testid="film-canvas"][data-side="primary"]')
+    const mmPerPixel = image.mmPerPixel![1]
+    // About 1.5 mm off the true corner, inside the default 3 mm search radius.
+    const near = (name: string): [number, number] => {
+      const [x, y] = truth.points[name]!
+      return [x + 1.2 / mmPerPixel, y - 0.9 / mmPerPixel]
+    }
+    const suggestion = async (): Promise<[number, number]> => {
+      await expect.poll(() => surface.getAttribute('data-suggestion-x')).not.toBeNull()
+      return [
+        Number(await surface.getAttribute('data-suggestion-x')),
+        Number(await surface.getAttribute('data-suggestion-y')),
+      ]
+    }
+    const distance = (a: readonly number[], b: readonly number[]) =>
+      Math.hypot(a[0]! - b[0]!, a[1]! - b[1]!)
+    const view = await viewState(page)
+
+    // L5.as: a click on the amber mark accepts it.
+    await page.mouse.click(...toScreen(view, near('L5.as')))
+    const first = await suggestion()
+    await page.mouse.move(5, 5)
+    await page.screenshot({ path: screenshotPath('workspace-corner-suggestion') })
+    // The phantom draws its corners where the truth is (server/phantom): the suggestion lies
+    // nearer the true corner than the click did.
+    expect(distance(first, truth.points['L5.as']!)).toBeLessThan(
+      distance(near('L5.as'), truth.points['L5.as']!),
+    )
+    await page.mouse.click(...toScreen(view, first))
+    await expect.poll(() => surface.getAttribute('data-suggestion-x')).toBeNull()
+
+    // L5.ps: Enter accepts.
+    await page.mouse.click(...toScreen(view, near('L5.ps')))
+    const second = await suggestion()
+    await page.keyboard.press('Enter')
+    await expect.poll(() => surface.getAttribute('data-suggestion-x')).toBeNull()
+
+    // L5.pi: Escape keeps the rater's own point.
+    await page.mouse.click(...toScreen(view, near('L5.pi')))
+    await suggestion()
+    await page.keyboard.press('Escape')
+    await expect.poll(() => surface.getAttribute('data-suggestion-x')).toBeNull()
+
+    await expect
+      .poll(() => page.getByTestId('save-state').innerText(), { timeout: 10_000 })
+      .toContain('Saved')
+    const stored = await storedReading(reading.id)
+    expect(stored.landmarks.points['L5.as']).toEqual(first)
+    expect(stored.landmarks.points['L5.ps']).toEqual(second)
+    expect(distance(stored.landmarks.points['L5.pi']!, near('L5.pi'))).toBeLessThan(1)
+    expect(stored.suggestionUse.points).toEqual({ 'L5.as': true, 'L5.ps': true, 'L5.pi': false })
     await page.close()
   })
 
@@ -403,6 +466,7 @@ describe('Reading workspace in Chromium', () => {
     const pi = parseNumber(await resultValue(page, 'pi'))
     expect(Math.abs(pi - expected.pelvis!.incidenceDeg!)).toBeLessThan(0.1)
     await page.screenshot({ path: screenshotPath('workspace-lumbar-alignment') })
+    expect(await sourceTagsShown(page, '.results')).toEqual([])
     // Invert goes through the full-depth window in the worker; the film is redrawn.
     await page.getByRole('button', { name: 'Invert' }).click()
     await page.getByRole('button', { name: 'Inverted' }).waitFor()
@@ -433,6 +497,7 @@ describe('Reading workspace in Chromium', () => {
     await page.locator('[data-result="L5-S1-cage"]').waitFor()
     expect(await resultValue(page, 'L5-S1-cage')).toMatch(/°$/)
     await page.screenshot({ path: screenshotPath('workspace-construct-check') })
+    expect(await sourceTagsShown(page, '.results')).toEqual([])
     await page.close()
   })
 
@@ -464,6 +529,7 @@ describe('Reading workspace in Chromium', () => {
     const rom = parseNumber(await resultValue(page, 'rom'))
     expect(Math.abs(rom - 14)).toBeLessThan(0.5)
     await page.screenshot({ path: screenshotPath('workspace-motion-pair') })
+    expect(await sourceTagsShown(page, '.results')).toEqual([])
     await page.close()
   })
 })

@@ -386,6 +386,39 @@ describe('PATCH /api/readings/:id', () => {
   })
 })
 
+describe('PATCH /api/readings/:id with corner-suggestion use', () => {
+  it('stores which landmarks took the suggestion, keeps it when a save omits it, and refuses bad entries', async () => {
+    const imageId = await uploadFilm(neutral, 'lateral-neutral')
+    const created = (
+      await post(users.fellow, imageId, { template: 'slip-grade', options: { segment: 'L4-L5' } })
+    ).body
+    expect(created.suggestionUse).toEqual({ points: {} })
+    const points = pick(neutral, L4_L5)
+    const suggestionUse = { points: { 'L4.as': true, 'L4.ps': false } }
+    const saved = await patch(users.fellow, created.id, { points, suggestionUse, version: 1 })
+    expect(saved.status).toBe(200)
+    expect(saved.body.suggestionUse).toEqual(suggestionUse)
+
+    // A save without the field keeps the entries of landmarks still placed.
+    const { 'L4.as': _removed, ...fewer } = points
+    const kept = await patch(users.fellow, created.id, { points: fewer, version: 2 })
+    expect(kept.body.suggestionUse).toEqual({ points: { 'L4.ps': false } })
+
+    for (const [body, message] of [
+      [{ points: fewer, suggestionUse: { points: { 'L4.as': true } } }, /L4\.as.*placed/],
+      [{ points: fewer, suggestionUse: { points: { 'L4.ps': 'yes' } } }, /must be true/],
+      [{ points: fewer, suggestionUse: { points: {}, pairedPoints: {} } }, /motion-pair/],
+      [{ points: fewer, suggestionUse: { other: {} } }, /suggestionUse/],
+    ] as const) {
+      const res = await patch(users.fellow, created.id, { ...body, version: 3 })
+      expect(res.status).toBe(400)
+      expect(res.body.error.message).toMatch(message)
+    }
+    const row = await db(TABLES.readings).where({ id: created.id }).first()
+    expect(row.version).toBe(3)
+  })
+})
+
 describe('POST /api/readings/:id/submit', () => {
   it('submits a draft once; later edits and a second submit are refused', async () => {
     const imageId = await uploadFilm(neutral, 'lateral-neutral')

@@ -48,6 +48,9 @@ describe('GET /api/settings', () => {
           instabilityCriterion: 'white-panjabi-1990',
           // measurement-reference §11 (McAfee et al. 2005, from memory).
           implantCentringThresholdMm: 3,
+          cornerSuggestions: 'on',
+          cornerSearchRadiusMm: 3,
+          cornerSearchRadiusPx: 20,
           invitationLifetimeHours: 72,
           sessionAbsoluteHours: 12,
           idleSignOutMinutes: 30,

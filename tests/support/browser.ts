@@ -87,3 +87,13 @@ export async function openPatientsFromMenu(page: Page): Promise<void> {
     .click()
   await page.getByRole('heading', { name: 'Patients' }).waitFor()
 }
+
+/**
+ * The evidence tags of the engine's sources ([V], [V-sec], [M], [D], "[V for …; M for …]") are
+ * for the code: none may reach a screen, in its text or in a tooltip. Reads the HTML of what
+ * `selector` matches (every match), attributes included.
+ */
+export async function sourceTagsShown(page: Page, selector: string): Promise<string[]> {
+  const html = await page.locator(selector).evaluateAll((nodes) => nodes.map((n) => n.outerHTML))
+  return html.join('\n').match(/\[(?:V|M|D|V-sec)(?:\]|\s+for\b)[^\]]*\]?/g) ?? []
+}

@@ -8,7 +8,9 @@ import type {
 import { frontalSideWords } from '@shared/measurement/implant-centring'
 import { TEMPLATE_LABELS } from '@shared/readings/templates'
 import { READING_STATUS_LABELS } from '@shared/readings/reading-status'
-import { SPACING_SOURCE_SHORT, VISIT_KIND_LABELS } from '@/utils/format'
+import { VISIT_KIND_LABELS } from '@/utils/format'
+import { SPACING_SOURCE_SHORT } from '@shared/format/spacing-source-labels'
+import { numberText, numberWithUnit } from '@shared/format/number-text'
 
 export const TREATMENT_LABELS: Record<PlannedTreatment, string> = {
   none: 'No treatment',
@@ -57,17 +59,16 @@ export const BAND_LABELS: Record<PiLlBand, string> = {
   '++': 'band ++ (over 20°)',
 }
 
-/** Fixed digits, with no "-0.0" for a value that rounds to zero. */
+/** The shared formatter (shared/format) with one digit by default; "—" for no value. */
 export function formatNumber(value: number | null | undefined, digits = 1): string {
-  if (value === null || value === undefined) return '—'
-  const text = value.toFixed(digits)
-  return Number(text) === 0 ? (0).toFixed(digits) : text
+  return value === null || value === undefined || !Number.isFinite(value)
+    ? '—'
+    : numberText(value, digits)
 }
 
 /** "12.3°" or "4.0 mm"; a bare dash when there is no value (no unit on nothing). */
 export function formatWithUnit(value: number | null | undefined, unit: '°' | ' mm' | ' %'): string {
-  const text = formatNumber(value)
-  return text === '—' ? text : `${text}${unit}`
+  return numberWithUnit(value, 1, unit.trim()) ?? '—'
 }
 
 /** "2.6 mm toward patient left (5.3 % of the endplate width)", or with "image right" when the film does not say. */

@@ -28,6 +28,7 @@ function readingFixture(overrides: Partial<Reading> = {}): Reading {
     options: { segment: 'L5-S1' },
     landmarks: { points: {} },
     pairedLandmarks: null,
+    suggestionUse: { points: {} },
     calibration: { mmPerPixel: [0.5, 0.5], source: 'dicom-pixel-spacing' },
     pairedCalibration: null,
     results: {
@@ -167,6 +168,53 @@ describe('readings store: placing and history', () => {
   })
 })
 
+describe('readings store: corner suggestions', () => {
+  it('moves a landmark only when the rater accepts, records it, and undoes it in one step', async () => {
+    acceptPatches()
+    const store = await loadedStore()
+    store.placePoint('L5.as', [100, 100])
+    store.offerSuggestion({ name: 'L5.as', side: 'primary', from: [100, 100], at: [102.4, 98.7] })
+    // Offered, not taken: the point stays, recorded as the rater's own beside a suggestion.
+    expect(store.points['L5.as']).toEqual([100, 100])
+    expect(store.accepted).toEqual({ 'L5.as': false })
+    store.acceptSuggestion()
+    expect(store.points['L5.as']).toEqual([102.4, 98.7])
+    expect(store.accepted).toEqual({ 'L5.as': true })
+    expect(store.suggestion).toBeNull()
+    await vi.advanceTimersByTimeAsync(AUTOSAVE_DELAY_MS)
+    expect(api.patchReading.mock.calls.at(-1)?.[1]).toMatchObject({
+      points: { 'L5.as': [102.4, 98.7] },
+      suggestionUse: { points: { 'L5.as': true } },
+    })
+    store.undo()
+    expect(store.points['L5.as']).toEqual([100, 100])
+    expect(store.accepted).toEqual({ 'L5.as': false })
+  })
+
+  it('keeps the own point on Escape or on going on, and ignores an answer for a moved point', async () => {
+    const store = await loadedStore()
+    store.placePoint('L5.as', [100, 100])
+    store.offerSuggestion({ name: 'L5.as', side: 'primary', from: [100, 100], at: [103, 99] })
+    store.declineSuggestion()
+    expect(store.suggestion).toBeNull()
+    store.acceptSuggestion()
+    expect(store.points['L5.as']).toEqual([100, 100])
+
+    store.offerSuggestion({ name: 'L5.as', side: 'primary', from: [100, 100], at: [103, 99] })
+    store.placePoint('L5.ps', [200, 100])
+    expect(store.suggestion).toBeNull()
+    expect(store.points['L5.as']).toEqual([100, 100])
+    expect(store.accepted).toEqual({ 'L5.as': false })
+
+    // The answer came after the rater had already moved the point: it is not shown.
+    store.offerSuggestion({ name: 'L5.ps', side: 'primary', from: [190, 100], at: [191, 101] })
+    expect(store.suggestion).toBeNull()
+    // Placed again, the landmark's earlier record goes with its earlier position.
+    store.placePoint('L5.as', [120, 100])
+    expect(store.accepted).toEqual({})
+  })
+})
+
 describe('readings store: sign-off', () => {
   it("shows another rater's draft read-only, and a returned reading editable by its rater", async () => {
     const surgeonView = await loadedStore(readingFixture(), { id: 2, role: 'surgeon' })
@@ -237,6 +285,7 @@ describe('readings store: autosave', () => {
     expect(api.patchReading).toHaveBeenCalledTimes(1)
     expect(api.patchReading.mock.calls[0]?.[1]).toEqual({
       points: { 'L5.as': [1, 1], 'L5.ps': [2, 2] },
+      suggestionUse: { points: {} },
       version: 1,
     })
     expect(store.saveState).toBe('saved')
@@ -342,6 +391,7 @@ describe('readings store: conflicts (409 on a stale version)', () => {
     await store.overwriteTheirs()
     expect(api.patchReading).toHaveBeenLastCalledWith(7, {
       points: { 'L5.as': [1, 1] },
+      suggestionUse: { points: {} },
       version: 5,
     })
     expect(store.saveState).toBe('saved')

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest'
+import sharp from 'sharp'
 import { createCornerSuggestionHandler } from '../../../src/workers/corner-suggestion-protocol'
 
 /**
@@ -56,5 +57,20 @@ describe('corner suggestion worker messages', () => {
       id: 2,
       suggestion: null,
     })
+  })
+
+  // The workspace sends the server's full-depth PNG as it came; sharp (libvips) writes it here,
+  // an encoder independent of the fast-png decoder the worker uses.
+  it('decodes a 16-bit grey PNG film in the worker and finds the same corner', async () => {
+    const png = await sharp(quadrant(48, 40), { raw: { width: 48, height: 40, channels: 1 } })
+      .toColourspace('grey16')
+      .png()
+      .toBuffer()
+    const handle = createCornerSuggestionHandler()
+    const buffer = png.buffer.slice(png.byteOffset, png.byteOffset + png.byteLength) as ArrayBuffer
+    expect(handle({ type: 'film-png', buffer })).toEqual({ type: 'ready', width: 48, height: 40 })
+    const answer = handle({ type: 'suggest', id: 3, x: 24, y: 11.5, radiusPx: 8 })
+    if (answer.type !== 'suggestion') throw new Error(`unexpected ${answer.type}`)
+    expect(Math.hypot(answer.suggestion!.x - 20.5, answer.suggestion!.y - 14.5)).toBeLessThan(0.25)
   })
 })

@@ -14,7 +14,7 @@ describe('sourceWords', () => {
       /^offset of the implant centre .* \(derived\); .*McAfee et al\. 2005, Spine 30:1576, .* \(from memory, verify\)$/,
     )
     expect(sourceWords(SOURCES.dupuis)).toBe(
-      'Dupuis et al. 1985, Spine 10:262 (partly from memory, verify)',
+      'Dupuis et al. 1985, Spine 10:262 (thresholds from memory, verify)',
     )
   })
   it('leaves no tag in any engine source', () => {

@@ -1,7 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import {
   defaultSiteSettings,
-  plainCitation,
   resolveSiteSettings,
   SITE_SETTINGS,
   siteSettingProblem,
@@ -16,6 +15,9 @@ describe('site settings', () => {
       instabilityCriterion: 'white-panjabi-1990',
       // measurement-reference §11: 3 mm (McAfee et al. 2005, Spine 30:1576, from memory).
       implantCentringThresholdMm: 3,
+      cornerSuggestions: 'on',
+      cornerSearchRadiusMm: 3,
+      cornerSearchRadiusPx: 20,
       invitationLifetimeHours: 72,
       sessionAbsoluteHours: 12,
       idleSignOutMinutes: 30,
@@ -53,9 +55,8 @@ describe('site settings', () => {
     ).toEqual({ ...defaultSiteSettings(), landmarkSigmaMm: 2 })
   })
 
-  it('turns evidence tags into words', () => {
-    expect(plainCitation('Smith 2001 [M]; Jones 2002 [V]; angle [D]')).toBe(
-      'Smith 2001 (from memory, verify); Jones 2002; angle (derived)',
-    )
+  it('shows each criterion with its source in words, no evidence tag', () => {
+    for (const choice of SITE_SETTINGS.instabilityCriterion.choices)
+      expect(choice.source).not.toMatch(/\[|\]/)
   })
 })
