@@ -3,7 +3,6 @@ import { createPinia } from 'pinia'
 import PrimeVue from 'primevue/config'
 import ToastService from 'primevue/toastservice'
 import ConfirmationService from 'primevue/confirmationservice'
-import VueKonva from 'vue-konva'
 import '@fontsource/inter/400.css'
 import '@fontsource/inter/500.css'
 import '@fontsource/inter/600.css'
@@ -19,5 +18,4 @@ createApp(App)
   .use(PrimeVue, { theme: { preset: endplatePreset, options: { darkModeSelector: '.ep-dark' } } })
   .use(ToastService)
   .use(ConfirmationService)
-  .use(VueKonva)
   .mount('#app')

@@ -6,7 +6,6 @@ import {
 } from 'vue-router'
 import type { Permission } from '@shared/types/permissions'
 import { useSessionStore } from '@/stores/session'
-import SignInView from '@/views/SignInView.vue'
 
 /** Every route name; navigation goes by name so a typo does not compile. */
 export type RouteName =
@@ -51,7 +50,7 @@ const routes: Array<RouteRecordRaw & { name?: RouteName }> = [
   {
     path: '/sign-in',
     name: 'sign-in',
-    component: SignInView,
+    component: () => import('@/views/SignInView.vue'),
     meta: { public: true, title: 'Sign in' },
   },
   {
