@@ -1,12 +1,15 @@
 import { fileURLToPath, URL } from 'node:url'
 import { defineConfig, type ViteUserConfig } from 'vitest/config'
 import vue from '@vitejs/plugin-vue'
+import { CSP_NONCE_PLACEHOLDER } from './server/middleware/csp-nonce.ts'
 
 const apiTarget = `http://127.0.0.1:${process.env.PORT ?? '4780'}`
 
 const config: ViteUserConfig = {
   plugins: [vue()],
   envDir: false,
+  // The server writes each response's nonce over this placeholder (server/middleware/client-page.ts).
+  html: { cspNonce: CSP_NONCE_PLACEHOLDER },
   // Everything the client ships lives under src/; the root holds no public/ folder.
   publicDir: false,
   resolve: {

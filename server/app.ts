@@ -10,6 +10,8 @@ import type { AppConfig } from './config'
 import type { Db } from './db/knex'
 import { authenticate } from './middleware/authenticate'
 import { errorHandler } from './middleware/error-handler'
+import { clientPage } from './middleware/client-page'
+import { cspNonce, nonceSource } from './middleware/csp-nonce'
 import { notFoundHandler } from './middleware/not-found'
 import { sameOriginWrites } from './middleware/same-origin'
 import { accountRequestLimiter, authRouter } from './routes/auth'
@@ -59,13 +61,16 @@ export function createApp({
   app.disable('x-powered-by')
   app.set('trust proxy', 'loopback')
 
+  app.use(cspNonce)
   app.use(
     helmet({
       contentSecurityPolicy: {
         directives: {
-          // WebAssembly image codecs need 'wasm-unsafe-eval'; PrimeVue's theme injects <style> tags.
+          // WebAssembly image codecs need 'wasm-unsafe-eval'.
           'script-src': ["'self'", "'wasm-unsafe-eval'"],
-          'style-src': ["'self'", "'unsafe-inline'"],
+          // PrimeVue's theme injects <style> tags, carrying the page's nonce; style attributes in
+          // markup stay blocked (Vue, PrimeVue, Konva and chart.js set styles through the CSSOM).
+          'style-src': ["'self'", nonceSource],
           'img-src': ["'self'", 'data:', 'blob:'],
           'worker-src': ["'self'", 'blob:'],
           'connect-src': ["'self'"],
@@ -147,6 +152,9 @@ export function createApp({
   app.use('/api', api)
 
   if (existsSync(join(clientDir, 'index.html'))) {
+    const page = clientPage(join(clientDir, 'index.html'))
+    // Before the static files, so the page never goes out with its nonce placeholder.
+    app.get('/index.html', page)
     app.use(
       express.static(clientDir, {
         index: false,
@@ -158,10 +166,7 @@ export function createApp({
         },
       }),
     )
-    app.get('/{*splat}', (_req, res) => {
-      res.setHeader('Cache-Control', 'no-cache')
-      res.sendFile(join(clientDir, 'index.html'))
-    })
+    app.get('/{*splat}', page)
   }
 
   // Internal messages (which can quote SQL with patient data) reach the client in tests only;

@@ -11,11 +11,16 @@ import './assets/base.css'
 import App from './App.vue'
 import { router } from './router'
 import { endplatePreset } from './theme/preset'
+import { pageCspNonce } from './utils/csp-nonce'
 
 createApp(App)
   .use(createPinia())
   .use(router)
-  .use(PrimeVue, { theme: { preset: endplatePreset, options: { darkModeSelector: '.ep-dark' } } })
+  .use(PrimeVue, {
+    theme: { preset: endplatePreset, options: { darkModeSelector: '.ep-dark' } },
+    // The <style> tags PrimeVue injects carry the page's nonce; the server allows no other.
+    csp: { nonce: pageCspNonce() },
+  })
   .use(ToastService)
   .use(ConfirmationService)
   .mount('#app')
