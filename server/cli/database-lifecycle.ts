@@ -87,3 +87,24 @@ export async function truncateAllTables(db: Db): Promise<void> {
     await db.raw('SET FOREIGN_KEY_CHECKS = 1')
   }
 }
+
+/**
+ * Drops every table of the database the pool is on, migration bookkeeping included, so the next
+ * migrate builds the schema from nothing. Rolling the migrations back instead would stop at the
+ * first one whose `down` refuses to lose data (the implant-centring template refuses while such
+ * readings exist, and the demo always has one). One connection, so foreign key checks stay off
+ * for exactly these statements.
+ */
+export async function dropAllTables(db: Db): Promise<void> {
+  await db.transaction(async (trx) => {
+    const [rows] = (await trx.raw(
+      'SELECT table_name AS name FROM information_schema.tables WHERE table_schema = DATABASE()',
+    )) as [Array<{ name: string }>]
+    await trx.raw('SET FOREIGN_KEY_CHECKS = 0')
+    try {
+      for (const { name } of rows) await trx.raw(`DROP TABLE IF EXISTS \`${name}\``)
+    } finally {
+      await trx.raw('SET FOREIGN_KEY_CHECKS = 1')
+    }
+  })
+}

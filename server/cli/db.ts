@@ -8,7 +8,8 @@ import { failClearly } from './fail-clearly'
 failClearly()
 ensureEnvFile()
 const { config } = await import('../config')
-const { bringUpDatabase, migrateLatest, withDb } = await import('./database-lifecycle')
+const { bringUpDatabase, dropAllTables, migrateLatest, withDb } =
+  await import('./database-lifecycle')
 const { mariaDbPaths, stopMariaDb } = await import('./mariadb')
 
 const command = process.argv[2]
@@ -40,7 +41,7 @@ switch (command) {
   case 'reset':
     await bringUpDatabase(config, databases)
     await withDb(config.DB_NAME, async (db) => {
-      await db.migrate.rollback(undefined, true)
+      await dropAllTables(db)
       await migrateLatest(db)
       await db.seed.run()
     })

@@ -105,6 +105,18 @@ export const DEMO_FILMS: DemoFilm[] = [
     seed: 41,
     reading: { template: 'lumbar-alignment', options: {}, submit: false },
   },
+  // Last, so the fellows' alternation over the films above stays as it was.
+  {
+    patientKey: 'hybrid',
+    visitIndex: 2,
+    preset: 'hybrid-one-year-ap',
+    seed: 25,
+    reading: {
+      template: 'implant-centring',
+      options: { discReplacements: ['L3-L4', 'L4-L5'] },
+      submit: false,
+    },
+  },
 ]
 
 /** The phantom parameters of a demo film, with the demo patient's invented header data. */

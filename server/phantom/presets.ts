@@ -146,6 +146,25 @@ export const PHANTOM_PRESETS: Record<string, PhantomParamsInput> = {
     },
     implants: HYBRID_AP_IMPLANTS,
   },
+  // The same construct a year on, on the frontal film: the disc replacements have not moved
+  // (invented), so the Compare screen's frontal changes lie within their intervals; the patient
+  // stands a little less rotated.
+  'hybrid-one-year-ap': {
+    ...HYBRID_PATIENT,
+    ...AP_FILM,
+    studyDate: '20260305',
+    segments: {
+      'L3-L4': { segmentalAngleDeg: 11, posteriorDiscHeightMm: 6.8 },
+      'L4-L5': { segmentalAngleDeg: 17, posteriorDiscHeightMm: 7.3 },
+      'L5-S1': { slipPercent: 6, segmentalAngleDeg: 20, posteriorDiscHeightMm: 6.5 },
+    },
+    frontal: {
+      rotationDeg: 1,
+      spinousOffsetPercent: 3,
+      coronalAngleDeg: { 'L3-L4': 1.5, 'L4-L5': -2 },
+    },
+    implants: HYBRID_AP_IMPLANTS,
+  },
   'motion-flexion': MOTION.flexion,
   'motion-extension': MOTION.extension,
   // Harder films for the corner-suggestion bench: five times the detector noise, and a blur

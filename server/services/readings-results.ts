@@ -44,8 +44,6 @@ export interface ResultsInput {
   baselines: Array<{ readingId: number; document: LandmarkDocument }>
   /** The site settings in force; recorded with the results. */
   settings: ResultSettings
-  /** Implant centring: flag a lateral offset above this many mm. */
-  centringThresholdMm: number
   /** Implant centring: the patient side of the image's right edge (DICOM Patient Orientation). */
   imageRightSide: FrontalImageRightSide
 }
@@ -103,7 +101,7 @@ export function computeReadingResults(input: ResultsInput): ReadingResults {
   const centring =
     input.template === 'implant-centring'
       ? implantCentring(measurements, {
-          thresholdMm: input.centringThresholdMm,
+          thresholdMm: input.settings.implantCentringThresholdMm,
           imageRightSide: input.imageRightSide,
         })
       : null

@@ -13,11 +13,7 @@ import {
 } from '../db/readings'
 import { asNotFound, badRequest, HttpError, notFound } from '../errors'
 import { APP_VERSION } from '../version'
-import {
-  DEFAULT_IMPLANT_CENTRING_THRESHOLD_MM,
-  frontalImageRightSide,
-  LandmarkDocumentError,
-} from '../../shared/measurement/index'
+import { frontalImageRightSide, LandmarkDocumentError } from '../../shared/measurement/index'
 import { readingActionRefusal, type ReadingAction } from '../../shared/readings/reading-status'
 import {
   templateLandmarks,
@@ -152,9 +148,8 @@ async function compute(db: Db, context: ComputeContext): Promise<ReadingComputat
         landmarkSigmaMm: settings.landmarkSigmaMm,
         subsidenceThresholdMm: settings.subsidenceThresholdMm,
         instabilityCriterion: settings.instabilityCriterion,
+        implantCentringThresholdMm: settings.implantCentringThresholdMm,
       },
-      // Not yet a site setting (shared/settings/site-settings.ts): the published default applies.
-      centringThresholdMm: DEFAULT_IMPLANT_CENTRING_THRESHOLD_MM,
       imageRightSide: frontalImageRightSide(context.image.dicomAttributes?.patientOrientation),
     })
     return {

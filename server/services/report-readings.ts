@@ -92,7 +92,9 @@ function reportFilm(
   visit: Visit,
   identified: boolean,
 ): ReportFilm {
-  const shapes = readingOverlayShapes(reading.template, part.points, part.measurements)
+  const shapes = readingOverlayShapes(reading.template, part.points, part.measurements, {
+    imageRightSide: reading.results.centring?.imageRightSide,
+  })
   return {
     imageId: part.image.id,
     imageUrl: toImageRecord(part.image, identified).urls.preview,
@@ -151,6 +153,9 @@ export async function reportReading(db: Db, input: ReportReadingInput): Promise<
         }
       : null,
     motion: reading.results.motion?.segments ?? null,
+    instabilityCriterion: reading.results.computedWith?.instabilityCriterion,
+    imageRightSide: reading.results.centring?.imageRightSide,
+    centringThresholdMm: reading.results.centring?.thresholdMm,
     subsidence: {
       results: reading.results.subsidence,
       baselineReadingId: reading.results.subsidenceBaselineReadingId,

@@ -6,17 +6,15 @@ import type {
   MotionRow,
   SubsidenceRow,
 } from '../types/compare'
-import type { SegmentName, ValueInterval } from '../types/measurement'
+import type { FrontalImageRightSide, SegmentName } from '../types/measurement'
 import type { PatientPlan } from '../types/plans'
 import type { ReadingResults } from '../types/readings'
 import { SEGMENT_NAMES } from '../measurement/landmark-names'
 import { SOURCES } from '../measurement/sources'
 import { comparisonKindOf } from './comparison-kind'
-import {
-  DIFFERENCE_INTERVAL_METHOD,
-  differenceWithInterval,
-  valueWithInterval,
-} from './difference-interval'
+import { DIFFERENCE_INTERVAL_METHOD } from './difference-interval'
+import { differenceRow, type RowSpec } from './difference-row'
+import { frontalSegmentsOf, frontalSpecs } from './frontal-rows'
 import { planAchievedRows } from './plan-achieved'
 
 /** One film of the pair as the table needs it. */
@@ -36,50 +34,6 @@ export interface CompareTableInput {
   after: CompareSide
   /** The patient's plan, for the planned-against-achieved rows; null without one. */
   plan: PatientPlan | null
-}
-
-type Pick = (
-  measures: FilmMeasures,
-) => [value: number | null | undefined, interval: ValueInterval | null | undefined]
-
-interface RowSpec {
-  id: string
-  segment: SegmentName | null
-  label: string
-  unit: DifferenceRow['unit']
-  source: string
-  pick: Pick
-  /** Keep the row when neither film has a value (segment rows); global rows need one. */
-  always: boolean
-}
-
-function differenceRow(
-  spec: RowSpec,
-  before: CompareSide,
-  after: CompareSide,
-): DifferenceRow | null {
-  const read = (side: CompareSide) => {
-    if (!side.measures) return null
-    const [value, interval] = spec.pick(side.measures)
-    return valueWithInterval(value, interval)
-  }
-  const b = read(before)
-  const a = read(after)
-  if (!spec.always && b === null && a === null) return null
-  return {
-    id: spec.id,
-    segment: spec.segment,
-    label: spec.label,
-    unit: spec.unit,
-    before: b,
-    after: a,
-    change: b && a ? differenceWithInterval(b, a) : null,
-    calibration:
-      spec.unit === 'mm' && before.measures && after.measures
-        ? { before: before.measures.calibrationSource, after: after.measures.calibrationSource }
-        : null,
-    source: spec.source,
-  }
 }
 
 function segmentSpecs(segment: SegmentName): RowSpec[] {
@@ -219,6 +173,25 @@ const CALIBRATION_WORDS: Record<SpacingSource, string> = {
   none: 'uncalibrated',
 }
 
+const SIDE_WORDS: Record<FrontalImageRightSide, string> = {
+  'patient-left': "the patient's left",
+  'patient-right': "the patient's right",
+  unknown: 'not named by the file',
+}
+
+/** How to read the sign of a frontal offset change, and a warning when the films disagree. */
+function frontalNotes(before: CompareSide, after: CompareSide): string[] {
+  const b = before.reading?.results.centring?.imageRightSide ?? 'unknown'
+  const a = after.reading?.results.centring?.imageRightSide ?? 'unknown'
+  if (b === a)
+    return [
+      `Frontal offsets are signed: positive toward the image's right edge (${SIDE_WORDS[a]}); a change of sign means the implant crossed the midline.`,
+    ]
+  return [
+    `The frontal films name the image's right edge differently (earlier: ${SIDE_WORDS[b]}; later: ${SIDE_WORDS[a]}): compare the offsets' sizes, not their signs.`,
+  ]
+}
+
 function calibrationNotes(before: CompareSide, after: CompareSide): string[] {
   const b = before.measures?.calibrationSource
   const a = after.measures?.calibrationSource
@@ -261,22 +234,39 @@ export function compareTable(input: CompareTableInput): ComparisonTable {
       if (row) rows.push(row)
     }
   }
+  const frontalBefore = frontalSegmentsOf(before.measures)
+  const frontalAfter = frontalSegmentsOf(after.measures)
+  const frontalSegments = SEGMENT_NAMES.filter((s) => frontalBefore.has(s) && frontalAfter.has(s))
+  for (const segment of frontalSegments) {
+    for (const spec of frontalSpecs(segment)) {
+      const row = differenceRow(spec, before, after)
+      if (row) rows.push(row)
+    }
+  }
   for (const spec of GLOBAL_SPECS) {
     const row = differenceRow(spec, before, after)
     if (row) rows.push(row)
   }
   const notes = calibrationNotes(before, after)
+  if (frontalSegments.length) notes.push(...frontalNotes(before, after))
   if (!before.measures) notes.push('The earlier film has no reading yet.')
   if (!after.measures) notes.push('The later film has no reading yet.')
-  const onlyOne = SEGMENT_NAMES.filter((s) => inBefore.has(s) !== inAfter.has(s))
+  const onlyOne = SEGMENT_NAMES.filter(
+    (s) => inBefore.has(s) !== inAfter.has(s) || frontalBefore.has(s) !== frontalAfter.has(s),
+  )
   if (before.measures && after.measures && onlyOne.length)
     notes.push(`Measured on one film only, so not compared: ${onlyOne.join(', ')}.`)
   return {
     kind,
     segments,
+    frontalSegments,
     rows,
     plan:
-      input.plan && after.visitKind !== 'pre-op' && kind !== 'flexion-extension'
+      // The plan's targets are lordosis angles, read on a lateral film: a frontal film has none.
+      input.plan &&
+      after.visitKind !== 'pre-op' &&
+      kind !== 'flexion-extension' &&
+      after.view !== 'ap'
         ? planAchievedRows(input.plan, after.measures)
         : [],
     motion: motionRows([before, after]),

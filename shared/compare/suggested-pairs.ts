@@ -15,7 +15,9 @@ function staticFilmOf(visit: CompareCandidateVisit): number | null {
  * order: the last pre-op film against the first post-op film and against the latest follow-up;
  * the first post-op film against the latest follow-up; the last two follow-ups; and each visit's
  * flexion against its extension film. Across visits the neutral lateral film stands for its
- * visit (a long standing lateral when there is none). No pair is offered twice.
+ * visit (a long standing lateral when there is none). After surgery, the frontal (AP) films are
+ * paired too, for the disc replacements' centring: the first post-op AP against the latest
+ * follow-up AP, and the last two follow-up APs. No pair is offered twice.
  */
 export function suggestComparePairs(visits: readonly CompareCandidateVisit[]): SuggestedPair[] {
   const withFilm = visits
@@ -48,6 +50,25 @@ export function suggestComparePairs(visits: readonly CompareCandidateVisit[]): S
   offer('follow-ups', 'Post-op against latest follow-up', firstPostOp, latestFollowUp)
   if (followUps.length >= 2)
     offer('follow-ups', 'Last two follow-ups', followUps.at(-2), latestFollowUp)
+  const frontal = visits
+    .filter((visit) => visit.visitKind !== 'pre-op')
+    .map((visit) => ({ visit, film: visit.films.find((film) => film.view === 'ap') }))
+    .filter((entry) => entry.film !== undefined)
+  const firstPostOpAp = frontal.find((entry) => entry.visit.visitKind === 'post-op')?.film
+  const followUpAps = frontal.filter((entry) => entry.visit.visitKind === 'follow-up')
+  offer(
+    'follow-ups',
+    'Post-op AP against latest follow-up AP',
+    firstPostOpAp,
+    followUpAps.at(-1)?.film,
+  )
+  if (followUpAps.length >= 2)
+    offer(
+      'follow-ups',
+      'Last two follow-up APs',
+      followUpAps.at(-2)?.film,
+      followUpAps.at(-1)?.film,
+    )
   for (const visit of visits) {
     const flexion = visit.films.find((film) => film.view === 'lateral-flexion')
     const extension = visit.films.find((film) => film.view === 'lateral-extension')

@@ -1,7 +1,8 @@
 import type { Point } from '../geometry/types'
 import type { MeasurementResult } from '../types/measurement'
 import { SEGMENT_NAMES } from '../measurement/landmark-names'
-import type { OverlayPoints, OverlayShape } from './overlay-shapes'
+import { frontalSideWords } from '../measurement/implant-centring'
+import type { OverlayFilmContext, OverlayPoints, OverlayShape } from './overlay-shapes'
 import { overlayNumberText } from './overlay-labels'
 import { overlayLine } from './overlay-primitives'
 
@@ -10,13 +11,18 @@ import { overlayLine } from './overlay-primitives'
  * §11 landmarks): each segment's endplate lines U.il → U.ir and W.sl → W.sr, the implant's line
  * tdr.l → tdr.r, the body midline (dashed, through the mean m of the four corners, at right
  * angles to e = unit((U.ir − U.il) + (W.sr − W.sl)), as long as the disc is high), a ring at the
- * implant's centre and at the spinous process tip, and the engine's lateral offset as the label
- * (its sign says the image side: positive toward the image's right edge).
+ * implant's centre and at the spinous process tip. Two labels carry the engine's results: the
+ * lateral offset in mm and % of the endplate width beside the endplates' right ends (its sign
+ * says the side: positive toward the image's right edge, named as the patient's side when the
+ * film's Patient Orientation says which it is; mm only on a calibrated film),
+ * and the implant's coronal tilt beside the implant's left end.
  */
 export function frontalOverlayShapes(
   points: OverlayPoints,
   results: MeasurementResult | null,
+  context: OverlayFilmContext = {},
 ): OverlayShape[] {
+  const side = context.imageRightSide ?? 'unknown'
   const shapes: OverlayShape[] = []
   for (const segment of SEGMENT_NAMES) {
     const [u, w] = segment.split('-') as [string, string]
@@ -71,18 +77,33 @@ export function frontalOverlayShapes(
       ),
     )
     const offset = results?.frontal?.[segment]
-    const text =
-      offset?.lateralOffsetMm != null
-        ? overlayNumberText(Math.abs(offset.lateralOffsetMm), 1, 'mm')
-        : overlayNumberText(
-            offset?.lateralOffsetPercent != null ? Math.abs(offset.lateralOffsetPercent) : null,
-            1,
-            '%',
-          )
+    const magnitude = (value: number | null | undefined) =>
+      value === null || value === undefined ? null : Math.abs(value)
+    const text = [
+      overlayNumberText(magnitude(offset?.lateralOffsetMm), 1, 'mm'),
+      overlayNumberText(magnitude(offset?.lateralOffsetPercent), 1, '%'),
+    ]
+      .filter((part): part is string => part !== null)
+      .join(' / ')
     const signed = offset?.lateralOffsetMm ?? offset?.lateralOffsetPercent ?? null
+    const tilt = overlayNumberText(offset?.implantTiltDeg, 1, '°')
+    if (tl && tr && tilt) {
+      // Left of the leftmost corner of the segment, so the text never covers a landmark.
+      const left = tl[0] <= tr[0] ? tl : tr
+      const leftmostX = Math.min(left[0], uil[0], uir[0], wsl[0], wsr[0])
+      shapes.push({
+        kind: 'label',
+        id: `frontal-tilt-label-${segment}`,
+        category: 'implant',
+        at: [leftmostX - length * 0.08, left[1]],
+        text: `tilt ${tilt}`,
+        anchor: 'end',
+      })
+    }
     if (text && signed !== null) {
+      // The same side words as the results panel: the patient's side when the file names it.
       const towards =
-        Math.abs(signed) < 0.05 ? 'centred' : signed > 0 ? 'to image right' : 'to image left'
+        Math.abs(signed) < 0.05 ? 'centred' : `to ${frontalSideWords(side, signed > 0 ? 'r' : 'l')}`
       const right = uir[0] >= uil[0] ? uir : uil
       shapes.push({
         kind: 'label',

@@ -1,4 +1,5 @@
 import type { Point } from '../geometry/types'
+import type { FrontalImageRightSide } from '../types/measurement'
 
 /**
  * What a line shows; overlay colours encode this, never the vertebra. `endplate`: endplate lines
@@ -68,3 +69,9 @@ export type OverlayShape =
 
 /** A film's landmarks by name, image px (the landmark document's `points`). */
 export type OverlayPoints = Readonly<Record<string, readonly [x: number, y: number]>>
+
+/** What a film says about itself that changes the overlay words (never the geometry). */
+export interface OverlayFilmContext {
+  /** Frontal film: which patient side the image's right edge shows (DICOM Patient Orientation). */
+  imageRightSide?: FrontalImageRightSide
+}

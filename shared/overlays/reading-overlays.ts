@@ -1,6 +1,6 @@
 import type { ReadingTemplate } from '../types/domain'
 import type { MeasurementResult } from '../types/measurement'
-import type { OverlayPoints, OverlayShape } from './overlay-shapes'
+import type { OverlayFilmContext, OverlayPoints, OverlayShape } from './overlay-shapes'
 import { lateralOverlayShapes } from './lateral-overlays'
 import { frontalOverlayShapes } from './frontal-overlays'
 
@@ -8,6 +8,7 @@ import { frontalOverlayShapes } from './frontal-overlays'
 export type OverlayBuilder = (
   points: OverlayPoints,
   results: MeasurementResult | null,
+  context: OverlayFilmContext,
 ) => OverlayShape[]
 
 /**
@@ -31,6 +32,7 @@ export function readingOverlayShapes(
   template: ReadingTemplate,
   points: OverlayPoints,
   results: MeasurementResult | null,
+  context: OverlayFilmContext = {},
 ): OverlayShape[] {
-  return OVERLAY_BUILDERS[template](points, results)
+  return OVERLAY_BUILDERS[template](points, results, context)
 }

@@ -16,7 +16,13 @@ import type {
 } from '../types/measurement'
 import type { ReadingTemplate } from '../types/domain'
 import type { TemplateOptions } from './templates'
-import { frontalSideWords, implantCentring, MEYERDING_RULE, SOURCES } from '../measurement/index'
+import {
+  DEFAULT_IMPLANT_CENTRING_THRESHOLD_MM,
+  frontalSideWords,
+  implantCentring,
+  MEYERDING_RULE,
+  SOURCES,
+} from '../measurement/index'
 import { sourceWords } from './source-words'
 
 /** Where a film's mm scale comes from, in the words shown beside every mm value. */
@@ -589,6 +595,7 @@ export function centringSection(
   segmentName: SegmentName,
   film: FilmResults,
   imageRightSide: FrontalImageRightSide,
+  thresholdMm: number = DEFAULT_IMPLANT_CENTRING_THRESHOLD_MM,
 ): ResultSection {
   const title = `${segmentName} · disc replacement, frontal`
   const segment: FrontalSegmentMeasurement | undefined = film.measurements?.frontal[segmentName]
@@ -655,7 +662,10 @@ export function centringSection(
       { calibration },
     ),
   ]
-  const centring = implantCentring({ frontal: { [segmentName]: segment } }, { imageRightSide })
+  const centring = implantCentring(
+    { frontal: { [segmentName]: segment } },
+    { imageRightSide, thresholdMm },
+  )
   const offCentre = centring?.segments[segmentName]?.offCentre ?? null
   const flags: ResultFlag[] = []
   if (offCentre === true) {
@@ -714,6 +724,8 @@ export interface WorkspaceResultsInput {
   instabilityCriterion?: InstabilityCriterionId
   /** Implant centring: which patient side the image's right edge shows (default unknown). */
   imageRightSide?: FrontalImageRightSide
+  /** Implant centring: the site's off-centre threshold (mm; default the published 3 mm). */
+  centringThresholdMm?: number
   /** Construct check: the server's subsidence results of the last saved draft. */
   subsidence?: {
     results: Record<string, SubsidenceResult> | null
@@ -760,7 +772,12 @@ export function workspaceResultSections(input: WorkspaceResultsInput): ResultSec
     case 'implant-centring':
       return [
         ...(input.options.discReplacements ?? []).map((treated) =>
-          centringSection(treated, input.primary, input.imageRightSide ?? 'unknown'),
+          centringSection(
+            treated,
+            input.primary,
+            input.imageRightSide ?? 'unknown',
+            input.centringThresholdMm,
+          ),
         ),
         frontalSidesSection(input.imageRightSide ?? 'unknown'),
       ]

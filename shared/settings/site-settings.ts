@@ -6,6 +6,7 @@
 import { DEFAULT_SIGMA_MM } from '../measurement/uncertainty'
 import { DEFAULT_SUBSIDENCE_THRESHOLD_MM } from '../measurement/subsidence'
 import { INSTABILITY_CRITERIA } from '../measurement/motion-pair'
+import { DEFAULT_IMPLANT_CENTRING_THRESHOLD_MM } from '../measurement/implant-centring'
 import type { InstabilityCriterionId } from '../types/measurement'
 
 export interface NumberSettingSpec {
@@ -19,6 +20,8 @@ export interface NumberSettingSpec {
   step: number
   integer: boolean
   default: number
+  /** Where the default comes from, in plain words, when it is a published value. */
+  source?: string
 }
 
 export interface ChoiceSettingSpec<T extends string = string> {
@@ -82,6 +85,21 @@ export const SITE_SETTINGS = {
     })),
     default: 'white-panjabi-1990',
   } satisfies ChoiceSettingSpec<InstabilityCriterionId>,
+  implantCentringThresholdMm: {
+    kind: 'number',
+    label: 'Disc replacement off-centre threshold (frontal film)',
+    help: "Lateral offset of a disc replacement from the body midline above which the frontal film's centring check flags it.",
+    unit: 'mm',
+    min: 0.5,
+    max: 10,
+    step: 0.5,
+    integer: false,
+    default: DEFAULT_IMPLANT_CENTRING_THRESHOLD_MM,
+    // The reference's default (measurement-reference §11), a value cited from memory there.
+    source: plainCitation(
+      'McAfee et al. 2005, Spine 30:1576: ideal placement within 3 mm of the midline [M]',
+    ),
+  },
   invitationLifetimeHours: {
     kind: 'number',
     label: 'Invitation lifetime',

@@ -82,6 +82,8 @@ export interface ComparisonTable {
   kind: ComparisonKind
   /** Segments measured on both films, cranial to caudal: the rows' segments. */
   segments: SegmentName[]
+  /** Segments with implant centring measured on both (frontal) films, cranial to caudal. */
+  frontalSegments: SegmentName[]
   rows: DifferenceRow[]
   plan: PlanAchievedRow[]
   motion: MotionRow[]

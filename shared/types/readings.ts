@@ -45,6 +45,8 @@ export interface ResultSettings {
   landmarkSigmaMm: number
   subsidenceThresholdMm: number
   instabilityCriterion: import('./measurement').InstabilityCriterionId
+  /** Implant centring: flag a disc replacement further than this off the midline (mm). */
+  implantCentringThresholdMm: number
 }
 
 export interface Reading {

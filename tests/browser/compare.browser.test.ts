@@ -24,6 +24,7 @@ let preOpReading: Reading
 let postOpReading: Reading
 let preOpTruth: LandmarkDocument
 let postOpTruth: LandmarkDocument
+let postOpVisitId: number
 
 // Invented course: L4-L5 lordosis 19° before surgery, 27° after (a gain of 8°).
 const PRE_OP: PhantomParamsInput = {
@@ -70,6 +71,7 @@ beforeAll(async () => {
   patientId = await insertTestPatient(db, surgeon.id, { familyName: 'Oyelaran', givenName: 'Tove' })
   const preOpVisit = await insertTestVisit(db, patientId, surgeon.id, '2026-02-02', 'pre-op')
   const postOpVisit = await insertTestVisit(db, patientId, surgeon.id, '2026-04-14', 'post-op')
+  postOpVisitId = postOpVisit
   server = await startAppServer(db)
   browser = await launchBrowser()
   const [name, value] = surgeon.cookie.split('=') as [string, string]
@@ -283,6 +285,63 @@ describe('Compare in Chromium', () => {
       for (const cell of cells.slice(0, 4)) expect(pdfText).toContain(cell.trim())
     await readingPage.screenshot({ path: screenshotPath('reading-printable'), fullPage: true })
     await readingPage.close()
+    await page.close()
+  })
+  it('sets two frontal films side by side with the disc replacement offset change in its own table', async () => {
+    // Invented course of an L4-L5 disc replacement on the frontal film: 1.0 mm toward the image's
+    // right after surgery, 3.5 mm at follow-up (phantom ground truth: a change of +2.5 mm).
+    const followUpVisit = await insertTestVisit(
+      db,
+      patientId,
+      surgeon.id,
+      '2026-10-20',
+      'follow-up',
+    )
+    const options = { discReplacements: ['L4-L5'] }
+    const readAp = async (visitId: number, lateralOffsetMm: number) => {
+      const files = await smallPhantomFiles({
+        view: 'ap',
+        seriesDescription: 'LUMBAR SPINE AP',
+        widthPx: 625,
+        heightPx: 750,
+        implants: [{ kind: 'disc-replacement', segment: 'L4-L5', lateralOffsetMm }],
+      })
+      const upload = await browser.request.post(`${server.url}/api/visits/${visitId}/images`, {
+        multipart: {
+          view: 'ap',
+          confirmPatientMismatch: 'true',
+          file: { name: 'ap.dcm', mimeType: 'application/dicom', buffer: files.dicom },
+        },
+      })
+      expect(upload.status()).toBe(201)
+      const [image] = (await upload.json()) as ImageRecord[]
+      const truth = files.film.landmarks.points
+      const points = Object.fromEntries(
+        templateLandmarks('implant-centring', options as never)
+          .filter((spec) => truth[spec.name])
+          .map((spec) => [spec.name, truth[spec.name]!]),
+      )
+      const created = await browser.request.post(`${server.url}/api/images/${image!.id}/readings`, {
+        data: { template: 'implant-centring', options, points },
+      })
+      expect(created.status()).toBe(201)
+    }
+    await readAp(postOpVisitId, 1)
+    await readAp(followUpVisit, 3.5)
+
+    const page = await browser.newPage()
+    await page.goto(`${server.url}/patients/${patientId}`)
+    const launcher = page.getByRole('region', { name: 'Compare films' })
+    await launcher.getByRole('link', { name: /Post-op AP against latest follow-up AP/ }).click()
+    await page.waitForURL(/\/compare\?images=/)
+    await waitForFilms(page)
+    const frontal = page.getByTestId('compare-frontal')
+    await frontal.waitFor()
+    const change = frontal.locator('[data-cell="L4-L5-frontal-offset-mm"] .change')
+    expect(Number(await change.getAttribute('data-change'))).toBeCloseTo(2.5, 6)
+    expect(await change.innerText()).toMatch(/^\+2\.5 mm ± \d+\.\d mm$/)
+    expect(await frontal.textContent()).toContain('Implant coronal tilt')
+    await page.screenshot({ path: screenshotPath('compare-frontal') })
     await page.close()
   })
 })

@@ -130,6 +130,11 @@ describe('Films on a visit in Chromium', () => {
     const stored = await db('readings').where({ id: readingId }).first()
     expect(stored).toMatchObject({ template: 'slip-grade', segment: 'L5-S1', status: 'draft' })
     await page.screenshot({ path: screenshotPath('films-start-reading') })
+    // Back on the Patient screen the film card names the reading with a space before the segment.
+    await page.goBack()
+    await expect
+      .poll(() => page.locator('.reading-title').first().innerText(), { timeout: 20_000 })
+      .toBe('Slip grade L5-S1')
     await page.close()
   })
 })

@@ -74,6 +74,14 @@ describe('Studies screen in Chromium', () => {
     expect(await page.content()).not.toContain(studyPatient.familyName)
     await page.screenshot({ path: screenshotPath('study-researcher'), fullPage: true })
 
+    // The status filter shows the plain status names, never the stored values.
+    const statusChips = page
+      .locator('#ex-status')
+      .locator('xpath=ancestor::div[contains(@class,"p-multiselect")]')
+    await expect.poll(() => statusChips.innerText()).toContain('Awaiting signature')
+    expect(await statusChips.innerText()).toContain('Signed')
+    expect(await statusChips.innerText()).not.toContain('submitted')
+
     const [download] = await Promise.all([
       page.waitForEvent('download'),
       page.getByRole('button', { name: 'Download CSV' }).click(),

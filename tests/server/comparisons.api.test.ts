@@ -326,4 +326,97 @@ describe('GET /api/comparisons', () => {
     expect(comparison.table.motion[0]!.rangeOfMotionDeg).toBeCloseTo(14, 3)
     expect(comparison.table.plan).toEqual([])
   })
+
+  it('sets the frontal films side by side: the implant offset and tilt changes within their intervals', async () => {
+    // Invented course of a disc replacement at L4-L5 on the frontal film: 1.0 mm toward the
+    // image's right with 2° of tilt after surgery, 3.5 mm and 6° at follow-up (phantom ground
+    // truth, server/phantom); the header names the image's right edge as the patient's left.
+    const apFilm = (lateralOffsetMm: number, coronalTiltDeg: number) =>
+      smallPhantomFiles({
+        view: 'ap',
+        seriesDescription: 'LUMBAR SPINE AP',
+        widthPx: 625,
+        heightPx: 750,
+        implants: [{ kind: 'disc-replacement', segment: 'L4-L5', lateralOffsetMm, coronalTiltDeg }],
+      })
+    const postOp = await apFilm(1, 2)
+    const followUp = await apFilm(3.5, 6)
+    const options = { discReplacements: ['L4-L5' as const] }
+    const postOpId = await uploadPhantomFilm(
+      app,
+      users.fellow.cookie,
+      visits['post-op'],
+      postOp,
+      'ap',
+    )
+    const followUpId = await uploadPhantomFilm(
+      app,
+      users.fellow.cookie,
+      visits['follow-up'],
+      followUp,
+      'ap',
+    )
+    await readPhantomAt(app, users.fellow.cookie, postOp, postOpId, 'implant-centring', options)
+    await readPhantomAt(app, users.fellow.cookie, followUp, followUpId, 'implant-centring', options)
+    // A plan with a lordosis target at L4-L5: measured on lateral films only, never set beside
+    // a frontal film.
+    const planned = await request(app)
+      .put(`/api/patients/${patientId}/plan/L4-L5`)
+      .set('Cookie', users.surgeon.cookie)
+      .send({
+        parsDefectLeft: false,
+        parsDefectRight: false,
+        facetDegeneration: false,
+        dynamicInstability: false,
+        treatment: 'disc-replacement',
+        implantLordosisDeg: 6,
+        implantHeightMm: 10,
+        notes: null,
+        version: null,
+      })
+    expect(planned.status).toBe(200)
+
+    const res = await compare(`images=${followUpId},${postOpId}`)
+    expect(res.status).toBe(200)
+    const comparison = res.body as Comparison
+    expect(comparison.table.kind).toBe('follow-ups')
+    expect(comparison.table.segments).toEqual([])
+    expect(comparison.table.frontalSegments).toEqual(['L4-L5'])
+    expect(comparison.table.plan).toEqual([])
+
+    const offset = rowOf(comparison, 'L4-L5-frontal-offset-mm')
+    expect(offset.unit).toBe('mm')
+    expect(offset.before?.value).toBeCloseTo(1, 6)
+    expect(offset.after?.value).toBeCloseTo(3.5, 6)
+    const change = offset.change!
+    expect(change.value).toBeCloseTo(2.5, 6)
+    // Combined as the lateral rows are: the two 95 % half-widths in quadrature.
+    expect(change.halfWidth95).toBeCloseTo(
+      Math.hypot(offset.before!.halfWidth95!, offset.after!.halfWidth95!),
+      9,
+    )
+    expect(change.halfWidth95).toBeGreaterThan(0)
+    expect(offset.calibration).toEqual({
+      before: 'dicom-pixel-spacing',
+      after: 'dicom-pixel-spacing',
+    })
+    // % of the endplate width, against the engine on the phantom's own landmarks.
+    const truthBefore = computeMeasurements(postOp.film.landmarks).frontal['L4-L5']!
+    const truthAfter = computeMeasurements(followUp.film.landmarks).frontal['L4-L5']!
+    expect(rowOf(comparison, 'L4-L5-frontal-offset-percent').change?.value).toBeCloseTo(
+      truthAfter.lateralOffsetPercent! - truthBefore.lateralOffsetPercent!,
+      6,
+    )
+    const tilt = rowOf(comparison, 'L4-L5-frontal-tilt')
+    expect(tilt.unit).toBe('°')
+    expect(tilt.change?.value).toBeCloseTo(4, 6)
+    expect(tilt.change!.halfWidth95).toBeGreaterThan(0)
+    const coronal = rowOf(comparison, 'L4-L5-frontal-coronal-angle')
+    expect(coronal.change?.value).toBeCloseTo(
+      truthAfter.segmentCoronalAngleDeg! - truthBefore.segmentCoronalAngleDeg!,
+      6,
+    )
+    // How to read the sign, with the side the file names.
+    expect(comparison.table.notes.join(' ')).toMatch(/positive toward the image's right edge/)
+  })
 })

@@ -712,6 +712,27 @@ describe('implant centring on a frontal film', () => {
     expect(image.body.dicom.patientOrientation).toEqual(['L', 'F'])
   })
 
+  it('flags an off-centre implant at the site threshold and records the threshold used', async () => {
+    // The phantom's L4-L5 implant sits 2.6 mm off the midline, L3-L4's 1 mm (its ground truth).
+    await db(TABLES.siteSettings).insert({
+      key: 'implantCentringThresholdMm',
+      value: JSON.stringify(2),
+    })
+    const visit = await insertTestVisit(db, patientId, users.fellow.id, '2026-03-10', 'post-op')
+    const imageId = await uploadFilm(frontal, 'ap', visit)
+    const res = await post(users.fellow, imageId, {
+      template: 'implant-centring',
+      options,
+      points: centringPoints(frontal),
+    })
+    expect(res.status).toBe(201)
+    expect(res.body.results.centring).toMatchObject({
+      thresholdMm: 2,
+      segments: { 'L3-L4': { offCentre: false }, 'L4-L5': { offCentre: true } },
+    })
+    expect(res.body.results.computedWith.implantCentringThresholdMm).toBe(2)
+  })
+
   it('submits without the optional spinous processes, not without an implant end', async () => {
     const visit = await insertTestVisit(db, patientId, users.fellow.id, '2026-03-10', 'post-op')
     const imageId = await uploadFilm(frontal, 'ap', visit)

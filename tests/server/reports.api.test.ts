@@ -324,9 +324,55 @@ describe('GET /api/visits/:id/report.pdf', () => {
     writeFileSync(screenshotPath('report-frontal').replace(/\.png$/, '.pdf'), res.body as Buffer)
     const text = (await pdfPageTexts(res.body as Buffer)).join('\n')
     expect(text).toContain('Implant centring (AP)')
-    // The overlay labels carry the engine's offsets (shared/overlays frontal builder).
-    expect(text).toMatch(/L3-L4 offset \d+\.\d mm (to image (left|right)|centred)/)
-    expect(text).toMatch(/L4-L5 offset \d+\.\d mm (to image (left|right)|centred)/)
+    // The overlay labels carry the engine's offsets with the patient's side, as the results do:
+    // the file's Patient Orientation L\F makes the image's right edge the patient's left.
+    expect(text).toMatch(/L3-L4 offset \d+\.\d mm \/ \d+\.\d % to patient right/)
+    expect(text).toMatch(/L4-L5 offset \d+\.\d mm \/ \d+\.\d % to patient left/)
+    expect(text).toMatch(/tilt \d+\.\d°/)
     expect(text).toContain('Offset from midline')
+  })
+
+  it('reports the frontal changes against the previous visit: offset, tilt and coronal angle', async () => {
+    // Invented course of an L4-L5 disc replacement on the frontal film: 1.0 mm off the midline
+    // and 2° of tilt after surgery, 3.5 mm and 6° at follow-up (phantom ground truth).
+    const apFilm = (lateralOffsetMm: number, coronalTiltDeg: number) =>
+      smallPhantomFiles({
+        view: 'ap',
+        seriesDescription: 'LUMBAR SPINE AP',
+        widthPx: 625,
+        heightPx: 750,
+        implants: [{ kind: 'disc-replacement', segment: 'L4-L5', lateralOffsetMm, coronalTiltDeg }],
+      })
+    const options = { discReplacements: ['L4-L5' as const] }
+    const postOp = await apFilm(1, 2)
+    const followUp = await apFilm(3.5, 6)
+    const postOpId = await uploadPhantomFilm(
+      app,
+      users.fellow.cookie,
+      visits['post-op'],
+      postOp,
+      'ap',
+    )
+    const followUpId = await uploadPhantomFilm(
+      app,
+      users.fellow.cookie,
+      visits['follow-up'],
+      followUp,
+      'ap',
+    )
+    await readPhantomAt(app, users.fellow.cookie, postOp, postOpId, 'implant-centring', options)
+    await readPhantomAt(app, users.fellow.cookie, followUp, followUpId, 'implant-centring', options)
+    const res = await pdf(`/api/visits/${visits['follow-up']}/report.pdf`)
+    expect(res.status).toBe(200)
+    const text = (await pdfPageTexts(res.body as Buffer)).join('\n')
+    expect(text).toContain('Against the previous visit')
+    expect(text).toMatch(
+      /L4-L5 · Implant lateral offset \(frontal\) 1\.0 mm ± \d+\.\d mm 3\.5 mm ± \d+\.\d mm \+2\.5 mm ± \d+\.\d mm/,
+    )
+    expect(text).toMatch(
+      /L4-L5 · Implant coronal tilt \(frontal\) 2\.0° ± \d+\.\d° 6\.0° ± \d+\.\d° \+4\.0° ± \d+\.\d°/,
+    )
+    expect(text).toContain('Segment coronal angle (frontal)')
+    expect(text).toMatch(/positive toward the image's right\s+edge/)
   })
 })

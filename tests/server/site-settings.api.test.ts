@@ -46,6 +46,8 @@ describe('GET /api/settings', () => {
           landmarkSigmaMm: DEFAULT_SIGMA_MM,
           subsidenceThresholdMm: DEFAULT_SUBSIDENCE_THRESHOLD_MM,
           instabilityCriterion: 'white-panjabi-1990',
+          // measurement-reference §11 (McAfee et al. 2005, from memory).
+          implantCentringThresholdMm: 3,
           invitationLifetimeHours: 72,
         },
         version: 0,
@@ -102,6 +104,7 @@ describe('PUT /api/settings', () => {
       landmarkSigmaMm: 1.5,
       subsidenceThresholdMm: 2,
       instabilityCriterion: 'dupuis-1985',
+      implantCentringThresholdMm: 3,
     })
   })
 

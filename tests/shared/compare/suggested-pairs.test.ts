@@ -43,6 +43,26 @@ describe('suggestComparePairs', () => {
     ])
   })
 
+  it('pairs the frontal films after surgery: first post-op AP against the latest follow-up AP', () => {
+    const withAp: CompareCandidateVisit[] = [
+      { visitId: 1, visitKind: 'pre-op', films: [{ imageId: 10, view: 'ap' }] },
+      { visitId: 2, visitKind: 'post-op', films: [{ imageId: 20, view: 'ap' }] },
+      { visitId: 3, visitKind: 'follow-up', films: [{ imageId: 30, view: 'ap' }] },
+      { visitId: 4, visitKind: 'follow-up', films: [{ imageId: 40, view: 'ap' }] },
+    ]
+    // A pre-op AP has no implant to centre, so it is never offered.
+    expect(
+      suggestComparePairs(withAp).map((pair) => [
+        pair.label,
+        pair.beforeImageId,
+        pair.afterImageId,
+      ]),
+    ).toEqual([
+      ['Post-op AP against latest follow-up AP', 20, 40],
+      ['Last two follow-up APs', 30, 40],
+    ])
+  })
+
   it('offers nothing without two comparable films, and never a film against itself', () => {
     expect(suggestComparePairs([visits[0]!])).toHaveLength(1)
     expect(suggestComparePairs([{ visitId: 9, visitKind: 'pre-op', films: [] }])).toEqual([])

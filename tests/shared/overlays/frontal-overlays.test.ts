@@ -47,9 +47,51 @@ describe('frontal overlays (implant centring)', () => {
     expect((y1 + y2) / 2).toBeCloseTo(150, 9)
   })
 
-  it("labels the engine's offset with its unit and image side", () => {
+  it("labels the engine's offset in mm and % of the endplate width, with its image side", () => {
+    // By hand: (220 − 200) px × 0.2 mm/px = 4 mm; 20 px of a 200 px wide endplate = 10 %.
     expect(byId(shapes, 'frontal-offset-label-L4-L5')).toMatchObject({
-      text: 'L4-L5 offset 4.0 mm to image right',
+      text: 'L4-L5 offset 4.0 mm / 10.0 % to image right',
+      anchor: 'start',
     })
+  })
+
+  it("labels the implant's tilt left of the segment's leftmost corner, level with the implant", () => {
+    // Implant and endplates all level: no tilt (reference §11 unsigned angle).
+    expect(byId(shapes, 'frontal-tilt-label-L4-L5')).toMatchObject({
+      text: 'tilt 0.0°',
+      anchor: 'end',
+    })
+    const label = byId(shapes, 'frontal-tilt-label-L4-L5')
+    if (label?.kind !== 'label') throw new Error('no tilt label')
+    // Left of L4.il / L5.sl at x = 100, clear of every landmark.
+    expect(label.at[0]).toBeLessThan(100)
+    expect(label.at[1]).toBe(150)
+  })
+
+  it("names the patient's side as the results do when the file's Patient Orientation gives it", () => {
+    // DICOM PS3.3 C.7.6.1.1.1: rows toward L — the image's right edge is the patient's left.
+    const named = readingOverlayShapes(
+      'implant-centring',
+      POINTS,
+      computeMeasurements({ mmPerPixel: 0.2, points: POINTS }),
+      { imageRightSide: 'patient-left' },
+    )
+    expect(byId(named, 'frontal-offset-label-L4-L5')).toMatchObject({
+      text: 'L4-L5 offset 4.0 mm / 10.0 % to patient left',
+    })
+  })
+
+  it('gives the offset in % alone on an uncalibrated film, and the tilt of a tilted implant', () => {
+    // The implant's right end 14 px lower over 140 px: atan(14 / 140) = 5.71° (by hand).
+    const tilted = { ...POINTS, 'tdr.L4-L5.r': [290, 164] as PixelPoint }
+    const uncalibrated = readingOverlayShapes(
+      'implant-centring',
+      tilted,
+      computeMeasurements({ points: tilted }),
+    )
+    expect(byId(uncalibrated, 'frontal-offset-label-L4-L5')).toMatchObject({
+      text: 'L4-L5 offset 10.0 % to image right',
+    })
+    expect(byId(uncalibrated, 'frontal-tilt-label-L4-L5')).toMatchObject({ text: 'tilt 5.7°' })
   })
 })

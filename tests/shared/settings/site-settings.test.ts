@@ -14,8 +14,17 @@ describe('site settings', () => {
       landmarkSigmaMm: DEFAULT_SIGMA_MM,
       subsidenceThresholdMm: 2,
       instabilityCriterion: 'white-panjabi-1990',
+      // measurement-reference §11: 3 mm (McAfee et al. 2005, Spine 30:1576, from memory).
+      implantCentringThresholdMm: 3,
       invitationLifetimeHours: 72,
     })
+  })
+
+  it('names the published source of the off-centre threshold in plain words', () => {
+    const source = SITE_SETTINGS.implantCentringThresholdMm.source
+    expect(source).toContain('McAfee et al. 2005, Spine 30:1576')
+    expect(source).toContain('(from memory, verify)')
+    expect(source).not.toMatch(/\[(V|M|D|V-sec)\]/)
   })
 
   it('offers every instability criterion the engine knows, each with its source in plain words', () => {
