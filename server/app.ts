@@ -10,6 +10,8 @@ import type { AppConfig } from './config'
 import type { Db } from './db/knex'
 import { authenticate } from './middleware/authenticate'
 import { errorHandler } from './middleware/error-handler'
+import { clientPage } from './middleware/client-page'
+import { cspNonce, nonceSource } from './middleware/csp-nonce'
 import { notFoundHandler } from './middleware/not-found'
 import { noStore } from './middleware/no-store'
 import { sameOriginWrites } from './middleware/same-origin'
@@ -70,13 +72,16 @@ export function createApp({
   // HTTPS, whatever NODE_ENV says.
   const servedOverHttps = config.publicUrl.startsWith('https:')
 
+  app.use(cspNonce)
   app.use(
     helmet({
       contentSecurityPolicy: {
         directives: {
-          // WebAssembly image codecs need 'wasm-unsafe-eval'; PrimeVue's theme injects <style> tags.
+          // WebAssembly image codecs need 'wasm-unsafe-eval'.
           'script-src': ["'self'", "'wasm-unsafe-eval'"],
-          'style-src': ["'self'", "'unsafe-inline'"],
+          // PrimeVue's theme injects <style> tags, carrying the page's nonce; style attributes in
+          // markup stay blocked (Vue, PrimeVue, Konva and chart.js set styles through the CSSOM).
+          'style-src': ["'self'", nonceSource],
           'img-src': ["'self'", 'data:', 'blob:'],
           'worker-src': ["'self'", 'blob:'],
           'connect-src': ["'self'"],
@@ -170,6 +175,9 @@ export function createApp({
   app.use('/api', api)
 
   if (existsSync(join(clientDir, 'index.html'))) {
+    const page = clientPage(join(clientDir, 'index.html'))
+    // Before the static files, so the page never goes out with its nonce placeholder.
+    app.get('/index.html', page)
     app.use(
       express.static(clientDir, {
         index: false,
@@ -181,10 +189,7 @@ export function createApp({
         },
       }),
     )
-    app.get('/{*splat}', (_req, res) => {
-      res.setHeader('Cache-Control', 'no-cache')
-      res.sendFile(join(clientDir, 'index.html'))
-    })
+    app.get('/{*splat}', page)
   }
 
   // Internal messages (which can quote SQL with patient data) reach the client in tests only;

@@ -43,6 +43,8 @@ function nullSink(): Writable & { bytes: number } {
 
 interface Measured {
   ms: number
+  /** This process's CPU time (user + system), which other load on the machine barely changes. */
+  cpuMs: number
   peakRssMiB: number
   peakHeapMiB: number
   bytes: number
@@ -61,10 +63,18 @@ async function measure(
     peakHeap = Math.max(peakHeap, usage.heapUsed)
   }, 5)
   const start = performance.now()
+  const cpuStart = process.cpuUsage()
   await work(sink)
   const ms = performance.now() - start
+  const cpu = process.cpuUsage(cpuStart)
   clearInterval(sample)
-  return { ms, peakRssMiB: peakRss / 2 ** 20, peakHeapMiB: peakHeap / 2 ** 20, bytes: sink.bytes }
+  return {
+    ms,
+    cpuMs: (cpu.user + cpu.system) / 1000,
+    peakRssMiB: peakRss / 2 ** 20,
+    peakHeapMiB: peakHeap / 2 ** 20,
+    bytes: sink.bytes,
+  }
 }
 
 /** The bench readings: one ground-truth lumbar alignment (with its uncertainty), many times. */
@@ -216,13 +226,18 @@ export async function run(): Promise<void> {
       const database = await measure(fromDatabase(format, all))
       const line = (label: string, figures: Measured) =>
         console.log(
-          `  ${label.padEnd(44)} ${figures.ms.toFixed(0).padStart(6)} ms  peak RSS ${figures.peakRssMiB.toFixed(0)} MiB, heap ${figures.peakHeapMiB.toFixed(0)} MiB, ${(figures.bytes / 1e6).toFixed(1)} MB`,
+          `  ${label.padEnd(44)} ${figures.ms.toFixed(0).padStart(6)} ms (CPU ${figures.cpuMs.toFixed(0).padStart(5)} ms)  peak RSS ${figures.peakRssMiB.toFixed(0)} MiB, heap ${figures.peakHeapMiB.toFixed(0)} MiB, ${(figures.bytes / 1e6).toFixed(1)} MB`,
         )
       console.log(`  ${format.toUpperCase()}`)
       line(`library alone, ${READINGS * 5} rows from memory`, library)
       line(`export from the database, ${READINGS * 5} rows`, database)
       line(`export from the database, ${SMALL_STUDY_READINGS * 5} rows`, smallDatabase)
-      console.log(`    ratio ${(database.ms / library.ms).toFixed(2)} (target ≤ 1.5)`)
+      const ratio = database.ms / library.ms
+      // The CPU ratio counts this process only (MariaDB works in its own), but holds steady
+      // when other programs load the machine; the wall-clock ratio is the target.
+      console.log(
+        `    ratio ${ratio.toFixed(2)} (target ≤ 1.5) ${ratio <= 1.5 ? 'MET' : 'MISSED'}; on this process's CPU time ${(database.cpuMs / library.cpuMs).toFixed(2)}`,
+      )
       console.log(
         `    memory 10 k → 100 k rows: heap ${smallDatabase.peakHeapMiB.toFixed(0)} → ${database.peakHeapMiB.toFixed(0)} MiB, RSS ${smallDatabase.peakRssMiB.toFixed(0)} → ${database.peakRssMiB.toFixed(0)} MiB`,
       )

@@ -17,6 +17,11 @@ export interface ExportFilter {
 
 type RawRow = Record<string, unknown>
 
+/** Longest an export's query may stream: a very large export to a slow reader, with room. */
+const EXPORT_STATEMENT_MS = 10 * 60_000
+/** Readings buffered ahead of the writer: a few MB, flat however large the export. */
+const STREAM_ROWS_AHEAD = 250
+
 function toExportReading(row: RawRow, raterNames: ReadonlyMap<number, string>): ExportReading {
   return {
     readingId: row.id as number,
@@ -28,7 +33,13 @@ function toExportReading(row: RawRow, raterNames: ReadonlyMap<number, string>): 
       mmPerPixel: null,
       source: 'none',
     },
-    results: parseJson<ReadingResults>(row.results) as ReadingResults,
+    results: {
+      measurements: parseJson<ReadingResults['measurements']>(
+        row.measurements,
+      ) as ReadingResults['measurements'],
+      motion: parseJson<ReadingResults['motion']>(row.motion),
+      subsidence: parseJson<ReadingResults['subsidence']>(row.subsidence),
+    },
     raterId: row.rater_id as number,
     raterName: raterNames.get(row.rater_id as number) ?? '',
     visitKind: row.kind as VisitKind,
@@ -65,7 +76,19 @@ function exportQuery(db: Db, filter: ExportFilter): Knex.QueryBuilder {
       'r.status',
       'r.engine_version',
       'r.calibration',
-      'r.results',
+      // Only the parts of the results the columns read: the uncertainty block is three quarters
+      // of a stored result, and sending and parsing it for every row was most of an export's
+      // time. JSON_QUERY copies the stored fragment (mysql2 parses it as JSON); it stops
+      // scanning at the key, so the keys after the uncertainty block are read only where the
+      // engine writes them: motion for motion pairs, subsidence for construct checks
+      // (computeReadingResults in server/services/readings-results.ts); elsewhere they are null.
+      db.raw("JSON_QUERY(r.results, '$.measurements') as measurements"),
+      db.raw(
+        "CASE WHEN r.template = 'motion-pair' THEN JSON_QUERY(r.results, '$.motion') END as motion",
+      ),
+      db.raw(
+        "CASE WHEN r.template = 'construct-check' THEN JSON_QUERY(r.results, '$.subsidence') END as subsidence",
+      ),
       'r.rater_id',
       'v.kind',
       'v.visit_date',
@@ -116,7 +139,15 @@ export async function* streamExportReadings(
       user.display_name as string,
     ]),
   )
-  const stream = exportQuery(db, filter).stream()
+  // An export streams for as long as its reader takes to download it, far beyond the API's
+  // statement timeout, which would cut it off midway; it gets a limit of its own (both the
+  // client's and MariaDB's, see server/db/timeouts.ts).
+  const { sql, bindings } = exportQuery(db, filter).toSQL().toNative()
+  const stream = db
+    .raw(`SET STATEMENT max_statement_time = ${EXPORT_STATEMENT_MS / 1000} FOR ${sql}`, bindings)
+    .options({ timeout: EXPORT_STATEMENT_MS })
+    // More rows buffered than the default 16, so MariaDB can keep producing while Node writes.
+    .stream({ highWaterMark: STREAM_ROWS_AHEAD })
   try {
     for await (const row of stream) yield toExportReading(row as RawRow, raterNames)
   } finally {

@@ -18,7 +18,8 @@ export interface ExportReading {
   status: string
   engineVersion: string
   calibration: ReadingCalibration
-  results: ReadingResults
+  /** The parts of the stored results the columns read (the uncertainty block is not fetched). */
+  results: Pick<ReadingResults, 'measurements' | 'motion' | 'subsidence'>
   raterId: number
   raterName: string
   visitKind: VisitKind
@@ -52,6 +53,11 @@ export interface ExportColumn {
   source: string
   /** Names, record numbers and dates: only in a clinician's identified export. */
   identified?: true
+  /**
+   * The value differs between the rows of one reading (it reads the row's segment); the others
+   * are the reading's and are computed once per reading.
+   */
+  perSegment?: true
   value(context: ExportRowContext): Cell
 }
 
@@ -93,6 +99,12 @@ const column = (
   source: sourceWords(source),
   ...(identified ? { identified } : {}),
   value: (context) => value(context) ?? null,
+})
+
+/** A column whose value reads the row's segment. */
+const segmentColumn = (...args: Parameters<typeof column>): ExportColumn => ({
+  ...column(...args),
+  perSegment: true,
 })
 
 const RECORD = 'patient record'
@@ -257,7 +269,7 @@ export const MEASUREMENT_COLUMNS: ExportColumn[] = [
     RECORD,
     (c) => c.reading.calibration.mmPerPixel?.[1],
   ),
-  column(
+  segmentColumn(
     'segment',
     null,
     'text',
@@ -265,7 +277,7 @@ export const MEASUREMENT_COLUMNS: ExportColumn[] = [
     RECORD,
     (c) => c.segment,
   ),
-  column(
+  segmentColumn(
     'slip',
     '%',
     'number',
@@ -273,7 +285,7 @@ export const MEASUREMENT_COLUMNS: ExportColumn[] = [
     SOURCES.slip,
     (c) => segmentOf(c)?.slipPercent,
   ),
-  column(
+  segmentColumn(
     'slip',
     'mm',
     'number',
@@ -281,7 +293,7 @@ export const MEASUREMENT_COLUMNS: ExportColumn[] = [
     SOURCES.slip,
     (c) => segmentOf(c)?.slipMm,
   ),
-  column(
+  segmentColumn(
     'meyerding_grade',
     null,
     'text',
@@ -289,7 +301,7 @@ export const MEASUREMENT_COLUMNS: ExportColumn[] = [
     SOURCES.meyerding,
     (c) => segmentOf(c)?.meyerdingGrade,
   ),
-  column(
+  segmentColumn(
     'slip_direction',
     null,
     'text',
@@ -297,7 +309,7 @@ export const MEASUREMENT_COLUMNS: ExportColumn[] = [
     SOURCES.slip,
     (c) => segmentOf(c)?.slipDirection,
   ),
-  column(
+  segmentColumn(
     'high_grade_slip',
     null,
     'integer',
@@ -305,7 +317,7 @@ export const MEASUREMENT_COLUMNS: ExportColumn[] = [
     SOURCES.highGrade,
     (c) => flag(segmentOf(c)?.highGrade),
   ),
-  column(
+  segmentColumn(
     'segmental_lordosis',
     'deg',
     'number',
@@ -313,7 +325,7 @@ export const MEASUREMENT_COLUMNS: ExportColumn[] = [
     SOURCES.segmentalLordosis,
     (c) => segmentOf(c)?.segmentalLordosisDeg,
   ),
-  column(
+  segmentColumn(
     'disc_angle',
     'deg',
     'number',
@@ -321,7 +333,7 @@ export const MEASUREMENT_COLUMNS: ExportColumn[] = [
     SOURCES.segmentalLordosis,
     (c) => segmentOf(c)?.discAngleDeg,
   ),
-  column(
+  segmentColumn(
     'disc_height_anterior',
     'mm',
     'number',
@@ -329,7 +341,7 @@ export const MEASUREMENT_COLUMNS: ExportColumn[] = [
     SOURCES.discHeight,
     (c) => segmentOf(c)?.discHeightMm?.anterior,
   ),
-  column(
+  segmentColumn(
     'disc_height_middle',
     'mm',
     'number',
@@ -337,7 +349,7 @@ export const MEASUREMENT_COLUMNS: ExportColumn[] = [
     SOURCES.discHeight,
     (c) => segmentOf(c)?.discHeightMm?.middle,
   ),
-  column(
+  segmentColumn(
     'disc_height_posterior',
     'mm',
     'number',
@@ -345,7 +357,7 @@ export const MEASUREMENT_COLUMNS: ExportColumn[] = [
     SOURCES.discHeight,
     (c) => segmentOf(c)?.discHeightMm?.posterior,
   ),
-  column(
+  segmentColumn(
     'disc_height_mean',
     'mm',
     'number',
@@ -353,7 +365,7 @@ export const MEASUREMENT_COLUMNS: ExportColumn[] = [
     SOURCES.discHeight,
     (c) => segmentOf(c)?.discHeightMm?.mean,
   ),
-  column(
+  segmentColumn(
     'slip_angle',
     'deg',
     'number',
@@ -361,7 +373,7 @@ export const MEASUREMENT_COLUMNS: ExportColumn[] = [
     SOURCES.slipAngle,
     (c) => segmentOf(c)?.slipAngleDeg,
   ),
-  column(
+  segmentColumn(
     'cage_lordosis',
     'deg',
     'number',
@@ -369,7 +381,7 @@ export const MEASUREMENT_COLUMNS: ExportColumn[] = [
     SOURCES.cageLordosis,
     (c) => segmentOf(c)?.cageLordosisDeg,
   ),
-  column(
+  segmentColumn(
     'implant_position',
     '%',
     'number',
@@ -377,7 +389,7 @@ export const MEASUREMENT_COLUMNS: ExportColumn[] = [
     SOURCES.implantPosition,
     (c) => segmentOf(c)?.implantPositionPercent,
   ),
-  column(
+  segmentColumn(
     'implant_offset',
     'mm',
     'number',
@@ -385,7 +397,7 @@ export const MEASUREMENT_COLUMNS: ExportColumn[] = [
     SOURCES.implantPosition,
     (c) => segmentOf(c)?.implantOffsetMm,
   ),
-  column(
+  segmentColumn(
     'range_of_motion',
     'deg',
     'number',
@@ -393,7 +405,7 @@ export const MEASUREMENT_COLUMNS: ExportColumn[] = [
     'difference of the segmental angles on the two films [D]',
     (c) => motionOf(c)?.rangeOfMotionDeg,
   ),
-  column(
+  segmentColumn(
     'translation',
     'mm',
     'number',
@@ -401,7 +413,7 @@ export const MEASUREMENT_COLUMNS: ExportColumn[] = [
     SOURCES.ideTranslation,
     (c) => motionOf(c)?.translationMm,
   ),
-  column(
+  segmentColumn(
     'translation',
     '%',
     'number',
@@ -409,7 +421,7 @@ export const MEASUREMENT_COLUMNS: ExportColumn[] = [
     SOURCES.whitePanjabi,
     (c) => motionOf(c)?.translationPercent,
   ),
-  column(
+  segmentColumn(
     'subsidence_mean_loss',
     'mm',
     'number',

@@ -3,7 +3,13 @@ import type { Db } from '../db/knex'
 import { findStudy } from '../db/studies'
 import { countExportRows, streamExportReadings, type ExportFilter } from '../db/exports'
 import { forbidden, notFound } from '../errors'
-import { exportColumns, type Cell, type ExportColumn } from '../exports/export-columns'
+import {
+  exportColumns,
+  type Cell,
+  type ExportColumn,
+  type ExportReading,
+  type ExportRowContext,
+} from '../exports/export-columns'
 import { dataDictionaryRows, DATA_DICTIONARY_HEADERS } from '../exports/data-dictionary'
 import { escapeSpreadsheetText } from '../exports/formula-escape'
 import { writeCsv, writeXlsx, type TableSheet } from '../exports/write-table'
@@ -62,21 +68,36 @@ export async function prepareMeasurementExport(
   }
 }
 
-/** Text cells escaped against formula injection; numbers and empties as they are. */
-function cellsOf(columns: ExportColumn[], context: Parameters<ExportColumn['value']>[0]): Cell[] {
-  return columns.map((column) => {
-    const value = column.value(context)
-    return typeof value === 'string' ? escapeSpreadsheetText(value) : value
+/** One cell of a row: text escaped against formula injection; numbers and empties as they are. */
+function cellOf(column: ExportColumn, context: ExportRowContext): Cell {
+  const value = column.value(context)
+  return typeof value === 'string' ? escapeSpreadsheetText(value) : value
+}
+
+/**
+ * The rows of one reading: one per measured segment (cranial to caudal), or one without a
+ * segment. The reading's own cells are computed once and copied into each of its rows; only the
+ * per-segment columns are computed per row.
+ */
+export function readingRows(columns: ExportColumn[], reading: ExportReading): Cell[][] {
+  const shared = columns.map((column) => cellOf(column, { reading, segment: null }))
+  const measured = reading.results?.measurements?.segments ?? {}
+  const segments = MOTION_SEGMENTS.filter((segment) => measured[segment] !== undefined)
+  if (segments.length === 0) return [shared]
+  return segments.map((segment) => {
+    const row = shared.slice()
+    for (let index = 0; index < columns.length; index += 1) {
+      const column = columns[index]!
+      if (column.perSegment) row[index] = cellOf(column, { reading, segment })
+    }
+    return row
   })
 }
 
-/** One row per reading and measured segment (segments in cranial-to-caudal order). */
+/** One row per reading and measured segment, reading after reading. */
 export async function* measurementRows(db: Db, prepared: PreparedExport): AsyncGenerator<Cell[]> {
   for await (const reading of streamExportReadings(db, prepared.filter)) {
-    const measured = reading.results?.measurements?.segments ?? {}
-    const segments = MOTION_SEGMENTS.filter((segment) => measured[segment] !== undefined)
-    if (segments.length === 0) yield cellsOf(prepared.columns, { reading, segment: null })
-    for (const segment of segments) yield cellsOf(prepared.columns, { reading, segment })
+    for (const row of readingRows(prepared.columns, reading)) yield row
   }
 }
 

@@ -7,7 +7,6 @@ import {
 } from 'vue-router'
 import type { Permission } from '@shared/types/permissions'
 import { useSessionStore } from '@/stores/session'
-import SignInView from '@/views/SignInView.vue'
 
 import type { RouteName, RouteNamedMap } from './route-map'
 
@@ -49,7 +48,7 @@ const routes: TypedRecord[] = [
   {
     path: '/sign-in',
     name: 'sign-in',
-    component: SignInView,
+    component: () => import('@/views/SignInView.vue'),
     meta: { public: true, title: 'Sign in' },
   },
   {
