@@ -44,7 +44,9 @@ beforeAll(async () => {
   ;({ app, config } = buildTestApp(db))
   await truncateAll(db)
   world = await buildWorld(db, app, config)
-  routes = registeredRoutes(app)
+  // The routes are read off the bare app: the one requests go to wraps it to label scripted
+  // writes as same-origin, and a wrapped app's router is out of reach.
+  routes = registeredRoutes(buildTestApp(db, {}, { bare: true }).app)
   server = createServer(app)
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve))
   origin = `http://127.0.0.1:${(server.address() as AddressInfo).port}`

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import type { Db } from '../../server/db/knex'
+import { createDb, type Db } from '../../server/db/knex'
 import { config } from '../../server/config'
 import { TABLES } from '../../server/db/tables'
 import { dropAllTables, openMigratedDatabase } from '../../server/cli/database-lifecycle'
@@ -20,7 +20,12 @@ async function tableNames(): Promise<string[]> {
 }
 
 beforeAll(async () => {
-  db = await openMigratedDatabase(config, name)
+  await (await openMigratedDatabase(config, name)).destroy()
+  // Dropping and migrating is the schema owner's work, as db:reset does it.
+  db = createDb(name, { timeouts: null, account: 'owner' })
+  // A run stopped half-way leaves rows behind: start from empty tables.
+  await dropAllTables(db)
+  await db.migrate.latest()
 })
 afterAll(async () => {
   await db.raw(`DROP DATABASE IF EXISTS \`${name}\``)

@@ -63,6 +63,8 @@ describe('the application log on an unexpected database error', () => {
       const res = await request(app)
         .post('/api/patients')
         .set('Cookie', users.fellow.cookie)
+        // A browser labels its own writes; this scripted one says it comes from the app's pages.
+        .set('Sec-Fetch-Site', 'same-origin')
         .send(patient)
       expect(res.status).toBe(500)
       expect(JSON.stringify(res.body)).not.toContain('Quillfeather')

@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
 import request from 'supertest'
+import { SESSION_COOKIE, signSessionToken, tokenSettingsOf } from '../../server/auth/session-token'
 import type { Express } from 'express'
 import type { Db } from '../../server/db/knex'
 import type { AppConfig } from '../../server/config'
@@ -54,6 +55,8 @@ afterAll(async () => {
   await db.destroy()
 })
 beforeEach(async () => {
+  // Back to the real time: a test that moved the clock must not age the next test's sessions.
+  clock.advanceMs(Date.now() - clock().getTime())
   await truncateAll(db)
   users = await createUsersForEveryRole(db, config)
   fellow2 = await createTestUser(db, config, 'fellow', 'fellow2@test.example')
@@ -74,6 +77,13 @@ beforeEach(async () => {
   const otherVisit = await insertTestVisit(db, otherPatient, users.surgeon.id)
   outsideFilmId = await insertTestFilm(db, otherVisit, users.fellow.id)
 })
+
+/** A fresh session cookie for the user, signed in at the given time. */
+function cookieAt(user: TestUser, at: Date): string {
+  const nowSeconds = Math.floor(at.getTime() / 1000)
+  const token = signSessionToken(user.id, user.role, tokenSettingsOf(config), { nowSeconds })
+  return `${SESSION_COOKIE}=${token}`
+}
 
 const as = (user: TestUser) => ({
   get: (path: string) => request(app).get(path).set('Cookie', user.cookie),
@@ -422,6 +432,8 @@ describe('intra-rater rounds', () => {
     )
 
     clock.advanceMs(14 * DAY_MS + 60_000)
+    // Fourteen days on, the test sessions are past their longest lifetime: sign in again.
+    for (const user of [users.fellow, users.surgeon]) user.cookie = cookieAt(user, clock())
     const open = (await as(users.fellow).get('/api/assignments?status=due')).body
       .items as typeof items
     expect(open.every((item) => item.status === 'due')).toBe(true)

@@ -22,6 +22,7 @@ const TOKEN = 'A'.repeat(43)
 
 export const INPUT_CASES: Record<string, InputCase> = {
   'GET /api/health': {},
+  'GET /api/health/details': {},
   // An address no account has, so refused sign-ins lock nobody out (see db-fingerprint.ts).
   'POST /api/auth/login': { body: () => ({ email: 'nobody@test.example', password: 'wrong-pw' }) },
   'POST /api/auth/password-reset': { body: () => ({ email: 'nobody@test.example' }) },
@@ -145,6 +146,7 @@ export const INPUT_CASES: Record<string, InputCase> = {
     body: () => ({ displayName: 'Renamed fellow' }),
   },
   'GET /api/audit-events': { query: () => ({ limit: '10' }) },
+  'GET /api/audit-events/chain': {},
   'POST /api/measurements/compute': {
     query: () => ({ uncertainty: 'false' }),
     body: () => ({ mmPerPixel: 0.5, points: SLIP_GRADE_L5_S1 }),
@@ -184,4 +186,30 @@ export const INPUT_CASES: Record<string, InputCase> = {
   'GET /api/exports/measurements.xlsx': { query: () => ({ template: 'slip-grade' }) },
   'GET /api/exports/data-dictionary.csv': { query: () => ({}) },
   'GET /api/images/:id/dicom': { params: (w) => id(w.imageId) },
+  'GET /api/rounds/rater-candidates': {},
+  'POST /api/studies/:id/rounds': {
+    params: (w) => id(w.studyId),
+    body: (w) => ({
+      name: 'Second round',
+      kind: 'inter',
+      template: 'slip-grade',
+      options: { showResultsBeforeSubmit: false },
+      imageIds: [w.imageId],
+      raterIds: [w.users.fellow.id, w.users.surgeon.id],
+    }),
+  },
+  'GET /api/studies/:id/rounds': { params: (w) => id(w.studyId), query: () => ({ limit: '10' }) },
+  'GET /api/rounds/:id': { params: (w) => id(w.roundId) },
+  'PATCH /api/rounds/:id': {
+    params: (w) => id(w.roundId),
+    body: (w) => withVersion(w, 'reliability_rounds', w.roundId, { status: 'closed' }),
+  },
+  'GET /api/rounds/:id/results': { params: (w) => id(w.roundId) },
+  'GET /api/rounds/:id/results.csv': { params: (w) => id(w.roundId) },
+  'GET /api/assignments': { query: () => ({ status: 'due' }) },
+  'POST /api/assignments/:id/start': { params: (w) => id(w.assignmentId) },
+  'GET /api/assignments/:id/film.json': { params: (w) => id(w.assignmentId) },
+  'GET /api/assignments/:id/film/:name': {
+    params: (w) => ({ id: String(w.assignmentId), name: 'display' }),
+  },
 }

@@ -3,10 +3,19 @@ import type { Db } from '../../../server/db/knex'
 /**
  * Tables a refused request may legitimately write:
  * - audit_events: refusals of protected actions are themselves audited (who tried what).
+ * - audit_chain_head: the hash of the newest audit event, moved by every audited refusal.
+ * - sign_in_throttle and rate_limits: a refused sign-in or reset request is counted, which is
+ *   how the throttle and the shared rate limits work.
  * - knex_migrations and its lock: bookkeeping of the migrator, never written by a request.
- * Rate-limit counters live in the process (express-rate-limit's memory store), not in a table.
  */
-const MAY_CHANGE_ON_REFUSAL = new Set(['audit_events', 'knex_migrations', 'knex_migrations_lock'])
+const MAY_CHANGE_ON_REFUSAL = new Set([
+  'audit_events',
+  'audit_chain_head',
+  'sign_in_throttle',
+  'rate_limits',
+  'knex_migrations',
+  'knex_migrations_lock',
+])
 
 export type Fingerprint = Record<string, string>
 

@@ -32,6 +32,10 @@ export interface World {
   submittedReadingId: number
   studyId: number
   invitationId: number
+  /** An inter-rater round on the team's film, read by the fellow and the surgeon. */
+  roundId: number
+  /** The fellow's first assignment in that round. */
+  assignmentId: number
   /** Rows outside the researcher's study, started by the surgeon: someone else's records. */
   foreign: { patientId: number; visitId: number; imageId: number; readingId: number }
   version: (table: string, id: number) => Promise<number>
@@ -67,6 +71,25 @@ export async function buildWorld(db: Db, app: Express, config: AppConfig): Promi
   if (invitation.status !== 201)
     throw new Error(`could not invite: ${JSON.stringify(invitation.body)}`)
 
+  const secondImageId = await insertTestFilm(db, visitId, users.fellow.id)
+  const round = await request(app)
+    .post(`/api/studies/${studyId}/rounds`)
+    .set('Cookie', users.surgeon.cookie)
+    .send({
+      name: 'Bad input round',
+      kind: 'inter',
+      template: 'slip-grade',
+      options: { showResultsBeforeSubmit: true },
+      imageIds: [imageId, secondImageId],
+      raterIds: [users.fellow.id, users.surgeon.id],
+    })
+  if (round.status !== 201)
+    throw new Error(`could not start a round: ${JSON.stringify(round.body)}`)
+  const assignment = (await db('round_assignments')
+    .where({ round_id: round.body.id, rater_id: users.fellow.id })
+    .orderBy('position')
+    .first()) as { id: number }
+
   const foreignPatientId = await insertTestPatient(db, users.surgeon.id)
   const foreignVisitId = await insertTestVisit(db, foreignPatientId, users.surgeon.id)
   const foreignImageId = await insertTestFilm(db, foreignVisitId, users.surgeon.id)
@@ -80,6 +103,8 @@ export async function buildWorld(db: Db, app: Express, config: AppConfig): Promi
     submittedReadingId,
     studyId,
     invitationId: invitation.body.id as number,
+    roundId: round.body.id as number,
+    assignmentId: assignment.id,
     foreign: {
       patientId: foreignPatientId,
       visitId: foreignVisitId,

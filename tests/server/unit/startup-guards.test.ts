@@ -5,6 +5,7 @@ import { demoRequested } from '../../../server/cli/demo-seed'
 // A complete, valid environment; each case spoils one key.
 const GOOD = {
   DB_PASSWORD: 'a-random-database-password',
+  DB_OWNER_PASSWORD: 'a-random-owner-password',
   JWT_SECRET: 'Zx8sQm1dJ4vPq0bT7yKc2nWf5hLr9aEu3gVo6iXs1Mk', // 43 base64url characters
   MAIL_FAKE: 'true',
   NODE_ENV: 'development',
@@ -34,8 +35,11 @@ describe('the session key', () => {
     expect(problemsOf(GOOD)).toBe('')
   })
 
-  it('refuses the database password placeholder, naming DB_PASSWORD', () => {
+  it('refuses the database password placeholders, naming DB_PASSWORD and DB_OWNER_PASSWORD', () => {
     expect(problemsOf({ ...GOOD, DB_PASSWORD: 'change-me-local-only' })).toMatch(/DB_PASSWORD/)
+    expect(problemsOf({ ...GOOD, DB_OWNER_PASSWORD: 'change-me-local-only' })).toMatch(
+      /DB_OWNER_PASSWORD/,
+    )
   })
 })
 
