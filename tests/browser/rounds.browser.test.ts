@@ -9,7 +9,7 @@ import { DEMO_PATIENTS, DEMO_STUDY, DEMO_USERS } from '../../server/demo/demo-da
 import { templateLandmarks } from '../../shared/readings/templates'
 import type { PixelPoint } from '../../shared/types/landmarks'
 import type { Assignment } from '../../shared/types/rounds'
-import { openTestDb, truncateAll } from '../support/test-db'
+import { openTestDb, seedDemo, truncateAll } from '../support/test-db'
 import {
   launchBrowser,
   screenshotPath,
@@ -78,7 +78,7 @@ async function readAssignments(
 beforeAll(async () => {
   db = await openTestDb()
   await truncateAll(db)
-  await db.seed.run()
+  await seedDemo(db)
   const { app, config } = buildTestApp(db)
   const surgeon = await createTestUser(db, config, 'surgeon', 'round-surgeon@test.example')
   firstRater = await createTestUser(db, config, 'fellow', 'round-fellow-1@test.example')
