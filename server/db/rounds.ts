@@ -7,28 +7,13 @@ import type {
   RoundKind,
   RoundOptions,
   RoundStatus,
+  RoundSummary,
   RoundTemplate,
   RoundTemplateOptions,
 } from '../../shared/types/rounds'
 
-/** A stored round with its counts. */
-export interface RoundRecord {
-  id: number
-  studyId: number
-  name: string
-  kind: RoundKind
-  template: RoundTemplate
-  templateOptions: RoundTemplateOptions
-  options: RoundOptions
-  status: RoundStatus
-  repeats: number
-  seed: string
-  version: number
-  createdAt: string
-  imageCount: number
-  raterCount: number
-  assignmentsTotal: number
-}
+/** A stored round with its counts: the summary the API sends, less the finished count the service works out. */
+export type RoundRecord = Omit<RoundSummary, 'assignmentsDone'>
 
 type RawRow = Record<string, unknown>
 
