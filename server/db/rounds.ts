@@ -7,28 +7,13 @@ import type {
   RoundKind,
   RoundOptions,
   RoundStatus,
+  RoundSummary,
   RoundTemplate,
   RoundTemplateOptions,
 } from '../../shared/types/rounds'
 
-/** A stored round with its counts. */
-export interface RoundRecord {
-  id: number
-  studyId: number
-  name: string
-  kind: RoundKind
-  template: RoundTemplate
-  templateOptions: RoundTemplateOptions
-  options: RoundOptions
-  status: RoundStatus
-  repeats: number
-  seed: string
-  version: number
-  createdAt: string
-  imageCount: number
-  raterCount: number
-  assignmentsTotal: number
-}
+/** A stored round with its counts: the summary the API sends, less the finished count the service works out. */
+export type RoundRecord = Omit<RoundSummary, 'assignmentsDone'>
 
 type RawRow = Record<string, unknown>
 
@@ -126,34 +111,42 @@ export async function insertRoundMembers(
     }>
   },
 ): Promise<void> {
-  await db.batchInsert(
+  await insertRoundRows(
+    db,
     TABLES.roundImages,
-    members.images.map((image) => ({
-      round_id: roundId,
-      image_id: image.imageId,
-      blind_code: image.blindCode,
-    })),
-    500,
+    roundId,
+    members.images.map((image) => ({ image_id: image.imageId, blind_code: image.blindCode })),
   )
-  await db.batchInsert(
+  await insertRoundRows(
+    db,
     TABLES.roundRaters,
-    members.raters.map((rater) => ({
-      round_id: roundId,
-      user_id: rater.userId,
-      rater_code: rater.raterCode,
-    })),
-    500,
+    roundId,
+    members.raters.map((rater) => ({ user_id: rater.userId, rater_code: rater.raterCode })),
   )
-  await db.batchInsert(
+  await insertRoundRows(
+    db,
     TABLES.roundAssignments,
+    roundId,
     members.assignments.map((assignment) => ({
-      round_id: roundId,
       image_id: assignment.imageId,
       rater_id: assignment.raterId,
       repetition: assignment.repetition,
       position: assignment.position,
       blind_code: assignment.blindCode,
     })),
+  )
+}
+
+/** Inserts a round's member rows in chunks of 500 so a large round stays within one statement's size. */
+async function insertRoundRows(
+  db: Db,
+  table: string,
+  roundId: number,
+  rows: Array<Record<string, unknown>>,
+): Promise<void> {
+  await db.batchInsert(
+    table,
+    rows.map((row) => ({ round_id: roundId, ...row })),
     500,
   )
 }
