@@ -21,8 +21,7 @@ import {
   startAssignment,
 } from '../services/assignments'
 import { getRoundResults } from '../services/round-results'
-import { roundResultsCsv } from '../services/round-results-csv'
-import { audit } from '../services/audit'
+import { exportRoundResultsCsv } from '../services/round-results-csv'
 import { actorOf } from './actor'
 
 /** Mounted at /api: a study's rounds, one round, and the rater's assignments. */
@@ -83,10 +82,8 @@ export function roundsRouter(db: Db, deps: { store: FileStore; now: Clock }): Ro
     requirePermission('round:read'),
     validate('params', idParam),
     async (req, res) => {
-      const actor = actorOf(req)
       const id = res.locals.params.id as number
-      const csv = roundResultsCsv(await getRoundResults(db, actor, id, now()))
-      await audit(db, actor, 'export', 'round', id, `Downloaded the results of round ${id} as CSV`)
+      const csv = await exportRoundResultsCsv(db, actorOf(req), id, now())
       res.setHeader('Content-Type', 'text/csv; charset=utf-8')
       res.setHeader('Content-Disposition', `attachment; filename="round-${id}-results.csv"`)
       res.send(csv)

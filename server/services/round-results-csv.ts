@@ -7,6 +7,9 @@ import { stringify } from 'csv-stringify/sync'
 import { ICC_FORMS } from '../../shared/statistics/index'
 import type { RoundResults } from '../../shared/types/rounds'
 import { escapeSpreadsheetText } from '../exports/formula-escape'
+import type { Db } from '../db/knex'
+import { audit, type Actor } from './audit'
+import { getRoundResults } from './round-results'
 
 type Cell = string | number | null
 
@@ -113,4 +116,16 @@ export function roundResultsCsv(results: RoundResults): string {
     }
   }
   return stringify(rows, { header: true, columns: ROUND_RESULTS_COLUMNS, bom: true })
+}
+
+/** The results CSV for someone allowed to read the round; the download is audited as an export. */
+export async function exportRoundResultsCsv(
+  db: Db,
+  actor: Actor,
+  id: number,
+  now: Date,
+): Promise<string> {
+  const csv = roundResultsCsv(await getRoundResults(db, actor, id, now))
+  await audit(db, actor, 'export', 'round', id, `Downloaded the results of round ${id} as CSV`)
+  return csv
 }
