@@ -9,10 +9,3 @@ export async function revokeSession(db: Db, sessionId: string, expiresAt: Date):
     .onConflict('session_id')
     .ignore()
 }
-
-export async function isSessionRevoked(db: Db, sessionId: string): Promise<boolean> {
-  return (
-    (await db(TABLES.revokedSessions).where({ session_id: sessionId }).first('session_id')) !==
-    undefined
-  )
-}

@@ -59,6 +59,30 @@ function toUser(row: UserRow): UserRecord {
   }
 }
 
+/**
+ * The account a session token names, and whether that session was signed out, in one statement:
+ * every authenticated request asks both, and one round trip fewer per request is most of the
+ * gain under load.
+ */
+export async function findSessionAccount(
+  db: Db,
+  userId: number,
+  sessionId: string,
+): Promise<{ user: UserRecord; sessionRevoked: boolean } | undefined> {
+  if (!Number.isSafeInteger(userId)) return undefined
+  const row = (await db(TABLES.users)
+    .select(COLUMNS)
+    .select(
+      db.raw(
+        `EXISTS (SELECT 1 FROM ?? WHERE session_id = ?) AS session_revoked`,
+        [TABLES.revokedSessions, sessionId],
+      ),
+    )
+    .where({ id: userId })
+    .first()) as (UserRow & { session_revoked: number }) | undefined
+  return row ? { user: toUser(row), sessionRevoked: toBoolean(row.session_revoked) } : undefined
+}
+
 export async function findUserById(db: Db, id: number): Promise<UserRecord | undefined> {
   if (!Number.isSafeInteger(id)) return undefined
   const row = (await db(TABLES.users).select(COLUMNS).where({ id }).first()) as UserRow | undefined

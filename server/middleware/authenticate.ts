@@ -1,7 +1,6 @@
 import type { CookieOptions, Request, RequestHandler, Response } from 'express'
 import type { Db } from '../db/knex'
-import { findUserById } from '../db/users'
-import { isSessionRevoked } from '../db/revoked-sessions'
+import { findSessionAccount } from '../db/users'
 import { unauthorized } from '../errors'
 import { tagHandler } from './handler-tags'
 import {
@@ -91,9 +90,9 @@ export function authenticate(db: Db, settings: SessionCookieSettings, now: Clock
     const nowSeconds = Math.floor(now().getTime() / 1000)
     const claims = verifySessionToken(token, settings, nowSeconds)
     if (!claims) throw unauthorized('Your session has expired or is invalid. Please sign in again.')
-    if (await isSessionRevoked(db, claims.sid))
-      throw unauthorized('You have signed out. Please sign in again.')
-    const user = await findUserById(db, Number(claims.sub))
+    const account = await findSessionAccount(db, Number(claims.sub), claims.sid)
+    if (account?.sessionRevoked) throw unauthorized('You have signed out. Please sign in again.')
+    const user = account?.user
     if (!user || !user.active) throw unauthorized('This account is not active.')
     if ((claims.gen ?? 0) !== user.sessionGeneration)
       throw unauthorized('This session was ended (a new password was set). Please sign in again.')
