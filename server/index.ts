@@ -9,6 +9,7 @@ import { createMailSender } from './mail/mail-sender'
 import { createLocalFileStore } from './storage/local-file-store'
 import { sweepUploadLeftovers } from './services/upload-sweep'
 import { closeIngestPool } from './images/ingest/ingest-pool'
+import { createAuditSealer } from './services/audit-sealer'
 
 /**
  * Starts the HTTP server (the only module that listens), the outbox's mail sender and, where
@@ -50,6 +51,8 @@ export async function startServer(): Promise<{
     smtp: { host: config.SMTP_HOST, port: config.SMTP_PORT, ignoreTls: config.MAIL_FAKE },
   })
   sender.start()
+  const sealer = createAuditSealer({ db, logger })
+  sealer.start()
   const server = createServer(createApp({ db, config, logger, store }))
   await new Promise<void>((resolveListen, reject) => {
     server.once('error', reject)
@@ -67,6 +70,11 @@ export async function startServer(): Promise<{
       await sender.stop()
       await catcher?.close()
       await closeIngestPool()
+      await sealer.stop()
+      // The last events of this run get their seal now rather than from the next start.
+      await sealer.sealNow().catch((error: unknown) => {
+        logger.warn({ err: error }, 'audit events left queued; the next start seals them')
+      })
       await db.destroy()
     },
   }

@@ -105,7 +105,7 @@ export async function truncateAllTables(db: Db): Promise<void> {
       await trx.raw('SET FOREIGN_KEY_CHECKS = 0')
       try {
         for (const table of TABLES_CHILDREN_FIRST) await trx.raw(`TRUNCATE TABLE \`${table}\``)
-        await trx(TABLES.auditChainHead).insert({ id: 1, last_id: 0, last_hash: GENESIS_HASH })
+        await trx(TABLES.auditChainHead).insert({ id: 1, last_seq: 0, last_hash: GENESIS_HASH })
       } finally {
         await trx.raw('SET FOREIGN_KEY_CHECKS = 1')
       }

@@ -6,7 +6,12 @@ import { TABLES } from './tables'
  * refuses an UPDATE or DELETE of an audit event from the API, whatever a bug or an intruder in
  * the application tries.
  */
-const APPEND_ONLY_TABLES: readonly string[] = [TABLES.auditEvents]
+const APPEND_ONLY_TABLES: readonly string[] = [TABLES.auditEvents, TABLES.auditSeals]
+/**
+ * The queue of events awaiting their seal: filled by a trigger (which runs with the schema
+ * owner's rights), emptied by the sealer.
+ */
+const QUEUE_TABLES: readonly string[] = [TABLES.auditUnsealed]
 /** Knex's own bookkeeping: the health probe reads it; only the owner migrates. */
 const READ_ONLY_TABLES: readonly string[] = ['knex_migrations', 'knex_migrations_lock']
 
@@ -14,6 +19,7 @@ const ROW_RIGHTS = ['SELECT', 'INSERT', 'UPDATE', 'DELETE'] as const
 
 function rightsFor(table: string): readonly string[] {
   if (APPEND_ONLY_TABLES.includes(table)) return ['SELECT', 'INSERT']
+  if (QUEUE_TABLES.includes(table)) return ['SELECT', 'DELETE']
   if (READ_ONLY_TABLES.includes(table)) return ['SELECT']
   return ROW_RIGHTS
 }

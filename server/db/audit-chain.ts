@@ -1,6 +1,4 @@
 import { createHash } from 'node:crypto'
-import type { Db } from './knex'
-import { TABLES } from './tables'
 
 /** The previous hash of the first event: 64 zeros. */
 export const GENESIS_HASH = '0'.repeat(64)
@@ -53,57 +51,4 @@ export function chainedFieldsOf(row: Record<string, unknown>): ChainedFields {
     summary: String(row.summary),
     ip: row.ip === null ? null : String(row.ip),
   }
-}
-
-export type ChainBreak =
-  | { id: number; reason: 'content-changed' }
-  | { id: number; reason: 'link-broken' }
-  | { id: number; reason: 'event-missing' }
-  | { id: number; reason: 'head-mismatch' }
-
-export interface ChainVerification {
-  intact: boolean
-  /** Events checked, oldest first. */
-  checked: number
-  /** The first event where the chain breaks; null when it is intact. */
-  firstBreak: ChainBreak | null
-}
-
-const BATCH = 1000
-
-/**
- * Recomputes the chain from the first event in batches: an event whose content no longer gives
- * its stored hash was changed; one whose previous hash is not its predecessor's hash, or whose
- * id skips one, marks a deletion or an insertion outside the chain. The head row must name the
- * last event, so deleting the newest events shows too.
- */
-export async function verifyAuditChain(db: Db): Promise<ChainVerification> {
-  let previousHash = GENESIS_HASH
-  let previousId = 0
-  let checked = 0
-  for (;;) {
-    const rows = (await db(TABLES.auditEvents)
-      .where('id', '>', previousId)
-      .orderBy('id')
-      .limit(BATCH)) as Array<Record<string, unknown>>
-    for (const row of rows) {
-      const fields = chainedFieldsOf(row)
-      const fail = (reason: ChainBreak['reason']): ChainVerification => ({
-        intact: false,
-        checked,
-        firstBreak: { id: fields.id, reason } as ChainBreak,
-      })
-      if (fields.id !== previousId + 1) return fail('event-missing')
-      if (row.prev_hash !== previousHash) return fail('link-broken')
-      if (chainHash(previousHash, fields) !== row.hash) return fail('content-changed')
-      previousHash = String(row.hash)
-      previousId = fields.id
-      checked += 1
-    }
-    if (rows.length < BATCH) break
-  }
-  const head = await db(TABLES.auditChainHead).where({ id: 1 }).first()
-  if (head && (Number(head.last_id) !== previousId || head.last_hash !== previousHash))
-    return { intact: false, checked, firstBreak: { id: previousId + 1, reason: 'head-mismatch' } }
-  return { intact: true, checked, firstBreak: null }
 }

@@ -1,7 +1,6 @@
 import type { Knex } from 'knex'
 import type { Db } from './knex'
 import { TABLES } from './tables'
-import { chainHash, GENESIS_HASH, type ChainedFields } from './audit-chain'
 
 export interface AuditEntry {
   userId: number | null
@@ -20,50 +19,47 @@ function wellFormed(text: string): string {
   )
 }
 
-async function appendChained(trx: Knex.Transaction, entry: AuditEntry): Promise<void> {
-  // The head row is locked until this transaction ends: concurrent appends wait in turn, so each
-  // links to the one committed before it and the chain never forks.
-  const head = (await trx(TABLES.auditChainHead).where({ id: 1 }).forUpdate().first()) as
-    { last_id: number | string; last_hash: string } | undefined
-  const previousId = head ? Number(head.last_id) : 0
-  const previousHash = head?.last_hash ?? GENESIS_HASH
-  const fields: ChainedFields = {
-    id: previousId + 1,
-    at: new Date(),
-    userId: entry.userId,
-    action: entry.action,
-    entity: entry.entity,
-    entityId: entry.entityId === null ? null : String(entry.entityId),
-    summary: wellFormed(entry.summary.slice(0, 500)),
-    ip: entry.ip ?? null,
-  }
-  const hash = chainHash(previousHash, fields)
-  await trx(TABLES.auditEvents).insert({
-    id: fields.id,
-    at: fields.at,
-    user_id: fields.userId,
-    action: fields.action,
-    entity: fields.entity,
-    entity_id: fields.entityId,
-    summary: fields.summary,
-    ip: fields.ip,
-    prev_hash: previousHash,
-    hash,
-  })
-  if (head)
-    await trx(TABLES.auditChainHead)
-      .where({ id: 1 })
-      .update({ last_id: fields.id, last_hash: hash })
-  else await trx(TABLES.auditChainHead).insert({ id: 1, last_id: fields.id, last_hash: hash })
+type CommitListener = () => void
+const commitListeners = new Set<CommitListener>()
+
+/**
+ * Calls `listener` whenever an audit event has been committed, so the sealer
+ * (server/services/audit-sealer.ts) chains it at once; answers a function that stops the calls.
+ */
+export function onAuditEventCommitted(listener: CommitListener): () => void {
+  commitListeners.add(listener)
+  return () => commitListeners.delete(listener)
+}
+
+function announceCommitted(): void {
+  for (const listener of commitListeners) listener()
+}
+
+/** The outermost transaction: an event inside a savepoint is committed with the outer one. */
+function outermost(trx: Knex.Transaction): Knex.Transaction {
+  let current = trx as Knex.Transaction & { parentTransaction?: Knex.Transaction }
+  while (current.parentTransaction) current = current.parentTransaction
+  return current
 }
 
 /**
- * Appends one event to the audit trail, chained by hash to the one before it. Call it inside
- * the transaction of the write it records; a read is recorded in a short transaction of its own.
+ * Appends one event to the audit trail: a single insert, so audited requests never wait for one
+ * another. A trigger queues the event and the sealer chains it by hash to the one before it
+ * moments later (server/db/audit-seal.ts). Call it inside the transaction of the write it
+ * records, so the event and the write commit or fail together.
  */
 export async function insertAuditEvent(db: Db, entry: AuditEntry): Promise<void> {
-  if (db.isTransaction) await appendChained(db as Knex.Transaction, entry)
-  else await db.transaction((trx) => appendChained(trx, entry))
+  await db(TABLES.auditEvents).insert({
+    at: new Date(),
+    user_id: entry.userId,
+    action: entry.action,
+    entity: entry.entity,
+    entity_id: entry.entityId === null ? null : String(entry.entityId),
+    summary: wellFormed(entry.summary.slice(0, 500)),
+    ip: entry.ip ?? null,
+  })
+  if (!db.isTransaction) announceCommitted()
+  else outermost(db as Knex.Transaction).executionPromise?.then(announceCommitted, () => {})
 }
 
 export interface AuditEventRecord {

@@ -16,8 +16,12 @@ export const TABLES = {
   roundRaters: 'round_raters',
   roundAssignments: 'round_assignments',
   auditEvents: 'audit_events',
-  /** One row: the id and hash of the newest audit event, locked while the next is appended. */
+  /** One row: the number and hash of the newest seal, locked while the sealer adds the next. */
   auditChainHead: 'audit_chain_head',
+  /** The hash chain: one seal per audit event, in the order the sealer chained them. */
+  auditSeals: 'audit_seals',
+  /** Audit events waiting for their seal (filled by a trigger on audit_events). */
+  auditUnsealed: 'audit_unsealed',
   siteSettings: 'site_settings',
   mailOutbox: 'mail_outbox',
   revokedSessions: 'revoked_sessions',
@@ -37,6 +41,8 @@ export const TABLES_CHILDREN_FIRST = [
   TABLES.filmFiles,
   TABLES.revokedSessions,
   TABLES.mailOutbox,
+  TABLES.auditUnsealed,
+  TABLES.auditSeals,
   TABLES.auditEvents,
   TABLES.auditChainHead,
   TABLES.roundAssignments,

@@ -73,10 +73,10 @@ export async function findSessionAccount(
   const row = (await db(TABLES.users)
     .select(COLUMNS)
     .select(
-      db.raw(
-        `EXISTS (SELECT 1 FROM ?? WHERE session_id = ?) AS session_revoked`,
-        [TABLES.revokedSessions, sessionId],
-      ),
+      db.raw(`EXISTS (SELECT 1 FROM ?? WHERE session_id = ?) AS session_revoked`, [
+        TABLES.revokedSessions,
+        sessionId,
+      ]),
     )
     .where({ id: userId })
     .first()) as (UserRow & { session_revoked: number }) | undefined

@@ -1,6 +1,6 @@
 import type { Db } from '../db/knex'
 import { listAuditEvents } from '../db/audit'
-import { verifyAuditChain } from '../db/audit-chain'
+import { verifyAuditChain } from '../db/audit-chain-verify'
 import type { AuditChainStatus, AuditEvent, Page } from '../../shared/types/api'
 
 /** The audit trail for administrators, newest first. Summaries carry ids and study codes only. */

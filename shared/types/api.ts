@@ -176,7 +176,7 @@ export interface AuditChainStatus {
   checked: number
   firstBreak: {
     id: number
-    reason: 'content-changed' | 'link-broken' | 'event-missing' | 'head-mismatch'
+    reason: 'content-changed' | 'link-broken' | 'event-missing' | 'head-mismatch' | 'not-chained'
   } | null
 }
 

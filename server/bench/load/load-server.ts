@@ -22,8 +22,12 @@ async function appToServe(): Promise<express.Express> {
   // Requests are logged as in production (info), to /dev/null: the cost of writing the line is
   // measured, the terminal is not.
   const logger = pino({ level: 'info' }, pino.destination('/dev/null'))
+  const db = createDb(databaseName as string)
+  // As in production, the audit trail is chained while the load runs.
+  const { createAuditSealer } = await import('../../services/audit-sealer')
+  createAuditSealer({ db, logger }).start()
   return createApp({
-    db: createDb(databaseName as string),
+    db,
     config: { ...config, NODE_ENV: 'production' },
     logger,
     clientDir: '/nonexistent',

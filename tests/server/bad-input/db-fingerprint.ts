@@ -3,13 +3,16 @@ import type { Db } from '../../../server/db/knex'
 /**
  * Tables a refused request may legitimately write:
  * - audit_events: refusals of protected actions are themselves audited (who tried what).
- * - audit_chain_head: the hash of the newest audit event, moved by every audited refusal.
+ * - audit_unsealed, audit_seals and audit_chain_head: the queue and the hash chain behind those
+ *   events, which follow every audited refusal.
  * - sign_in_throttle and rate_limits: a refused sign-in or reset request is counted, which is
  *   how the throttle and the shared rate limits work.
  * - knex_migrations and its lock: bookkeeping of the migrator, never written by a request.
  */
 const MAY_CHANGE_ON_REFUSAL = new Set([
   'audit_events',
+  'audit_unsealed',
+  'audit_seals',
   'audit_chain_head',
   'sign_in_throttle',
   'rate_limits',
