@@ -14,6 +14,7 @@ interface StudyRow {
   updated_at: Date
   patient_count: number | string
   film_count: number | string
+  held_back_film_count: number | string
   reading_count: number | string
   member_count: number | string
 }
@@ -26,6 +27,7 @@ function toStudySummary(row: StudyRow): StudySummary {
     note: row.note,
     patientCount: Number(row.patient_count),
     filmCount: Number(row.film_count),
+    heldBackFilmCount: Number(row.held_back_film_count),
     readingCount: Number(row.reading_count),
     memberCount: Number(row.member_count),
     version: row.version,
@@ -41,6 +43,14 @@ function selectStudies(db: Db): Knex.QueryBuilder {
     .join(`${TABLES.visits} as v`, 'v.id', 'i.visit_id')
     .join(`${TABLES.studyPatients} as sp`, 'sp.patient_id', 'v.patient_id')
     .whereRaw('sp.study_id = s.id')
+    .count('*')
+  // The rule of isReleasedToResearchers (shared/types/pixel-review.ts), in SQL.
+  const heldBackFilms = db(`${TABLES.images} as i`)
+    .join(`${TABLES.visits} as v`, 'v.id', 'i.visit_id')
+    .join(`${TABLES.studyPatients} as sp`, 'sp.patient_id', 'v.patient_id')
+    .whereRaw('sp.study_id = s.id')
+    .whereNot('i.burned_in_annotation', 'no')
+    .whereNull('i.pixels_cleared_at')
     .count('*')
   // Readings of a re-reading round are blinded and stay out of every clinical count.
   const readings = db(`${TABLES.readings} as r`)
@@ -61,6 +71,7 @@ function selectStudies(db: Db): Knex.QueryBuilder {
     's.updated_at',
     patients.as('patient_count'),
     films.as('film_count'),
+    heldBackFilms.as('held_back_film_count'),
     readings.as('reading_count'),
     members.as('member_count'),
   )

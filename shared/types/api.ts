@@ -206,6 +206,8 @@ export interface ImageRecord {
   /** Null for researchers: upload times betray visit dates. */
   createdAt: string | null
   urls: { display: string; preview: string; thumbnail: string; fullDepth: string }
+  /** Whether the pixels may show identity, and a clinician's review of them. */
+  pixelReview: import('./pixel-review').PixelReview
 }
 
 export interface DicomSummary {
