@@ -105,8 +105,7 @@ function selectImages(db: Db) {
 
 export async function findImage(db: Db, id: number): Promise<ImageRow | undefined> {
   const row = (await selectImages(db).where(`${TABLES.images}.id`, id).first()) as
-    | RawRow
-    | undefined
+    RawRow | undefined
   return row ? toImage(row) : undefined
 }
 

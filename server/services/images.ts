@@ -396,7 +396,11 @@ export async function reviewFilmPixels(
   if (input.cleared && image.burnedInAnnotation === 'yes' && input.confirmHeaderSaysYes !== true) {
     throw badRequest(
       "confirmHeaderSaysYes: this film's DICOM header says its pixels carry burned-in annotation; confirm that you have looked and found no identity despite the header's claim",
-      { confirmHeaderSaysYes: ['confirmHeaderSaysYes: required to clear a film whose header says YES'] },
+      {
+        confirmHeaderSaysYes: [
+          'confirmHeaderSaysYes: required to clear a film whose header says YES',
+        ],
+      },
     )
   }
   await db.transaction(async (trx) => {

@@ -1,7 +1,7 @@
 /**
  * Whether a film's pixels may show the patient's identity. The DICOM header's Burned In
- * Annotation (0028,0301; DICOM PS3.3 C.7.6.1 General Image Module, values YES and NO) says so for DICOM films;
- * ordinary image files carry no such claim.
+ * Annotation (0028,0301; DICOM PS3.3 C.7.6.1 General Image Module, values YES and NO) says so
+ * for DICOM films; ordinary image files carry no such claim.
  */
 export const BURNED_IN_ANNOTATION_STATES = ['yes', 'no', 'unknown'] as const
 export type BurnedInAnnotation = (typeof BURNED_IN_ANNOTATION_STATES)[number]

@@ -148,9 +148,9 @@ function readVoiLutFunction(dataSet: DataSet): VoiLutFunction {
 }
 
 /**
- * Burned In Annotation (0028,0301; DICOM PS3.3 C.7.6.1 General Image Module): its values are YES and NO. Absent
- * or any other value says nothing, so it is 'unknown' and the film is treated as possibly
- * showing identity.
+ * Burned In Annotation (0028,0301; DICOM PS3.3 C.7.6.1 General Image Module): its values are
+ * YES and NO. Absent or any other value says nothing, so it is 'unknown' and the film is
+ * treated as possibly showing identity.
  */
 function readBurnedInAnnotation(dataSet: DataSet): BurnedInAnnotation {
   const value = readText(dataSet, 'x00280301')?.toUpperCase()
