@@ -13,7 +13,7 @@ export const PERMISSIONS = {
   'visit:write': ['surgeon', 'fellow'],
   'plan:write': ['surgeon'],
   'image:upload': ['surgeon', 'fellow'],
-  /** Confirm, after looking at a film, that its pixels show no identity (researchers then see it). */
+  /** Confirm, after looking at a film, that its pixels show no identity (researchers see it then). */
   'image:review-pixels': ['surgeon', 'fellow'],
   'reading:write': ['surgeon', 'fellow'],
   'reading:sign': ['surgeon'],
