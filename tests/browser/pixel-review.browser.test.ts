@@ -1,0 +1,73 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { BrowserContext } from 'playwright-core'
+import type { Db } from '../../server/db/knex'
+import { DEMO_USERS } from '../../server/demo/demo-data'
+import { openTestDb, seedDemo, truncateAll } from '../support/test-db'
+import {
+  launchBrowser,
+  screenshotPath,
+  openPatientsFromMenu,
+  signInThroughForm,
+  startAppServer,
+} from '../support/browser'
+import { smallPhantomFiles } from '../support/phantom-files'
+
+let db: Db
+let browser: BrowserContext
+let server: { url: string; close(): Promise<void> }
+
+beforeAll(async () => {
+  db = await openTestDb()
+  await truncateAll(db)
+  await seedDemo(db)
+  server = await startAppServer(db)
+  browser = await launchBrowser()
+})
+
+afterAll(async () => {
+  await browser?.close()
+  await server?.close()
+  await db?.destroy()
+})
+
+describe('Pixel review in Chromium', () => {
+  it('lets a surgeon look at a PNG film and confirm no identity in its pixels', async () => {
+    const { png } = await smallPhantomFiles({ seed: 9 })
+    const page = await browser.newPage()
+    const surgeon = DEMO_USERS.find((user) => user.role === 'surgeon')!
+    await signInThroughForm(browser, page, server.url, surgeon)
+    await openPatientsFromMenu(page)
+    await page.locator('.patients-table').getByText('Halvorsen, Ingrid').click()
+    await page.getByRole('heading', { name: 'Halvorsen, Ingrid' }).waitFor()
+    await page
+      .getByTestId('film-input')
+      .setInputFiles([{ name: 'standing.png', mimeType: 'image/png', buffer: png }])
+    await page.getByRole('button', { name: 'Upload films' }).click()
+
+    // An ordinary image file makes no claim about burned-in text: held back until checked.
+    const grid = page.getByRole('list', { name: 'Films of this visit' })
+    await grid.getByText('Pixels not yet checked · held back from researchers').waitFor()
+    await grid.getByRole('button', { name: 'Check pixels' }).click()
+    const dialog = page.getByRole('dialog', { name: 'Check the pixels for identity' })
+    await dialog.getByText(/makes no claim about burned-in text/).waitFor()
+    await expect
+      .poll(() =>
+        dialog
+          .locator('img')
+          .evaluate((image) => (image as unknown as { naturalWidth: number }).naturalWidth),
+      )
+      .toBeGreaterThan(0)
+    await page.screenshot({ path: screenshotPath('pixel-review-dialog') })
+    await dialog.getByRole('button', { name: 'No identity in the pixels' }).click()
+    await dialog.waitFor({ state: 'hidden' })
+
+    await grid
+      .getByText(new RegExp(`No identity in the pixels: confirmed by ${surgeon.displayName}`))
+      .waitFor()
+    await page.screenshot({ path: screenshotPath('pixel-review-cleared'), fullPage: true })
+    const [film] = await db('images').select('burned_in_annotation', 'pixels_cleared_at')
+    expect(film.burned_in_annotation).toBe('unknown')
+    expect(film.pixels_cleared_at).not.toBeNull()
+    await page.close()
+  }, 60_000)
+})
