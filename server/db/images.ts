@@ -1,3 +1,4 @@
+import type { Knex } from 'knex'
 import type { Db } from './knex'
 import { TABLES } from './tables'
 import { parseJson, toIsoDateTime, toIsoDateTimeOrNull } from './rows'
@@ -90,6 +91,32 @@ function toImage(row: RawRow): ImageRow {
     uploadedBy: row.uploaded_by as number,
     createdAt: toIsoDateTime(row.created_at as Date),
   }
+}
+
+/**
+ * Limits an image query (table alias `alias`) to the films held back from researchers: the rule
+ * of isReleasedToResearchers (shared/types/pixel-review.ts) in SQL.
+ */
+export function whereHeldBack(query: Knex.QueryBuilder, alias: string): Knex.QueryBuilder {
+  return query
+    .whereNot(`${alias}.burned_in_annotation`, 'no')
+    .whereNull(`${alias}.pixels_cleared_at`)
+}
+
+/** How many films of each visit are held back from researchers (visits without any are absent). */
+export async function countHeldBackFilmsByVisit(
+  db: Db,
+  visitIds: readonly number[],
+): Promise<Map<number, number>> {
+  if (visitIds.length === 0) return new Map()
+  const rows = (await whereHeldBack(
+    db(`${TABLES.images} as i`).whereIn('i.visit_id', visitIds),
+    'i',
+  )
+    .groupBy('i.visit_id')
+    .select({ visitId: 'i.visit_id' })
+    .count({ count: '*' })) as Array<{ visitId: number; count: number | string }>
+  return new Map(rows.map((row) => [row.visitId, Number(row.count)]))
 }
 
 /** Image rows with the display name of the clinician who cleared their pixels, if any. */

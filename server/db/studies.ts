@@ -1,6 +1,7 @@
 import type { Knex } from 'knex'
 import type { Db } from './knex'
 import { TABLES } from './tables'
+import { whereHeldBack } from './images'
 import { toBoolean, toIsoDateTime } from './rows'
 import type { StudyMember, StudySummary } from '../../shared/types/studies'
 
@@ -44,14 +45,13 @@ function selectStudies(db: Db): Knex.QueryBuilder {
     .join(`${TABLES.studyPatients} as sp`, 'sp.patient_id', 'v.patient_id')
     .whereRaw('sp.study_id = s.id')
     .count('*')
-  // The rule of isReleasedToResearchers (shared/types/pixel-review.ts), in SQL.
-  const heldBackFilms = db(`${TABLES.images} as i`)
-    .join(`${TABLES.visits} as v`, 'v.id', 'i.visit_id')
-    .join(`${TABLES.studyPatients} as sp`, 'sp.patient_id', 'v.patient_id')
-    .whereRaw('sp.study_id = s.id')
-    .whereNot('i.burned_in_annotation', 'no')
-    .whereNull('i.pixels_cleared_at')
-    .count('*')
+  const heldBackFilms = whereHeldBack(
+    db(`${TABLES.images} as i`)
+      .join(`${TABLES.visits} as v`, 'v.id', 'i.visit_id')
+      .join(`${TABLES.studyPatients} as sp`, 'sp.patient_id', 'v.patient_id')
+      .whereRaw('sp.study_id = s.id'),
+    'i',
+  ).count('*')
   // Readings of a re-reading round are blinded and stay out of every clinical count.
   const readings = db(`${TABLES.readings} as r`)
     .join(`${TABLES.images} as i`, 'i.id', 'r.image_id')

@@ -121,6 +121,11 @@ export interface DeidentifiedVisit {
   monthsSinceSurgery: number | null
   /** 90 stands for 90 or older (ages above 89 are grouped). */
   ageAtVisitYears: number
+  /**
+   * On the patient's visit list only: films of the visit held back until a clinician confirms
+   * they show no identity in the pixels (left out of the visit's film list).
+   */
+  heldBackFilmCount?: number
 }
 
 export type Visit = IdentifiedVisit | DeidentifiedVisit

@@ -25,6 +25,7 @@ let config: AppConfig
 let uploadDir: string
 let users: Record<Role, TestUser>
 let film: Phantom
+let patientId: number
 let visitId: number
 let studyId: number
 
@@ -101,7 +102,7 @@ afterAll(async () => {
 beforeEach(async () => {
   await truncateAll(db)
   users = await createUsersForEveryRole(db, config)
-  const patientId = await insertTestPatient(db, users.fellow.id)
+  patientId = await insertTestPatient(db, users.fellow.id)
   visitId = await insertTestVisit(db, patientId, users.fellow.id)
   studyId = await insertStudyWith(db, users.researcher.id, [patientId])
 })
@@ -148,6 +149,8 @@ describe('films held back from researchers', () => {
     expect(list.body.map((image: { id: number }) => image.id)).toEqual([released])
     const study = await as(users.researcher).get(`/api/studies/${studyId}`)
     expect(study.body).toMatchObject({ filmCount: 1, heldBackFilmCount: 1 })
+    const visits = await as(users.researcher).get(`/api/patients/${patientId}/visits`)
+    expect(visits.body).toEqual([expect.objectContaining({ id: visitId, heldBackFilmCount: 1 })])
     // Clinicians see every film, and the count of those waiting for review.
     const clinical = await as(users.surgeon).get(`/api/visits/${visitId}/images`)
     expect(clinical.body).toHaveLength(2)
@@ -178,6 +181,8 @@ describe('films held back from researchers', () => {
       filmCount: 2,
       heldBackFilmCount: 0,
     })
+    const revisited = await as(users.researcher).get(`/api/patients/${patientId}/visits`)
+    expect(revisited.body[0].heldBackFilmCount).toBe(0)
 
     const withdrawn = await as(users.fellow).put(`/api/images/${unknown}/pixel-review`, {
       cleared: false,
