@@ -11,6 +11,7 @@ import {
   startAppServer,
 } from '../support/browser'
 import { smallPhantomFiles } from '../support/phantom-files'
+import { insertTestFilm } from '../support/fixtures'
 
 let db: Db
 let browser: BrowserContext
@@ -68,6 +69,42 @@ describe('Pixel review in Chromium', () => {
     const [film] = await db('images').select('burned_in_annotation', 'pixels_cleared_at')
     expect(film.burned_in_annotation).toBe('unknown')
     expect(film.pixels_cleared_at).not.toBeNull()
+    await page.close()
+  }, 60_000)
+
+  it("tells a researcher how many films are held back, on the study and on the patient's visit", async () => {
+    // A second film of the same visit that no clinician has checked (a row is enough: held back,
+    // its files are never asked for).
+    const visit = await db('images').first('visit_id', 'uploaded_by')
+    await insertTestFilm(db, visit.visit_id, visit.uploaded_by, 'unknown')
+    const { patient_id: patientId } = await db('visits').where({ id: visit.visit_id }).first()
+    const { study_id: studyId } = await db('study_patients')
+      .where({ patient_id: patientId })
+      .first()
+    const page = await browser.newPage()
+    await signInThroughForm(
+      browser,
+      page,
+      server.url,
+      DEMO_USERS.find((user) => user.role === 'researcher')!,
+    )
+    await page.getByRole('heading', { name: 'Worklist' }).waitFor()
+    await page.goto(`${server.url}/studies/${studyId}`)
+    const note = page.getByTestId('held-back-films')
+    await note
+      .getByText('1 film held back until a clinician confirms it shows no identity in the pixels.')
+      .waitFor()
+    // PrimeVue's message fades in: wait until it is fully shown before the screenshot.
+    await expect.poll(() => note.evaluate((element) => getComputedStyle(element).opacity)).toBe('1')
+    await page.screenshot({ path: screenshotPath('pixel-review-study-held-back') })
+    await page.goto(`${server.url}/patients/${patientId}`)
+    const grid = page.getByRole('list', { name: 'Films of this visit' })
+    await expect.poll(() => grid.locator('img').count(), { timeout: 20_000 }).toBe(1)
+    await page.getByTestId('held-back-films').waitFor()
+    await page.screenshot({
+      path: screenshotPath('pixel-review-patient-held-back'),
+      fullPage: true,
+    })
     await page.close()
   }, 60_000)
 })
