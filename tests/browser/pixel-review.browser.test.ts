@@ -95,7 +95,17 @@ describe('Pixel review in Chromium', () => {
       .getByText('1 film held back until a clinician confirms it shows no identity in the pixels.')
       .waitFor()
     // PrimeVue's message fades in: wait until it is fully shown before the screenshot.
-    await expect.poll(() => note.evaluate((element) => getComputedStyle(element).opacity)).toBe('1')
+    await expect
+      .poll(() =>
+        note.evaluate((element) => {
+          // Runs in the page; the test's own types have no DOM.
+          const view = globalThis as unknown as {
+            getComputedStyle(target: unknown): { opacity: string }
+          }
+          return view.getComputedStyle(element).opacity
+        }),
+      )
+      .toBe('1')
     await page.screenshot({ path: screenshotPath('pixel-review-study-held-back') })
     await page.goto(`${server.url}/patients/${patientId}`)
     const grid = page.getByRole('list', { name: 'Films of this visit' })
