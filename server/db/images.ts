@@ -1,8 +1,10 @@
+import type { Knex } from 'knex'
 import type { Db } from './knex'
 import { TABLES } from './tables'
 import { parseJson, toIsoDateTime, toIsoDateTimeOrNull } from './rows'
 import type { ImageView, SpacingSource } from '../../shared/types/domain'
 import type { ManualCalibration } from '../../shared/types/api'
+import type { BurnedInAnnotation } from '../../shared/types/pixel-review'
 
 export type FileKind = 'dicom' | 'png' | 'jpeg' | 'tiff'
 
@@ -44,6 +46,10 @@ export interface ImageRow {
   windowWidth: number | null
   acquiredAt: string | null
   dicomAttributes: StoredDicomAttributes | null
+  burnedInAnnotation: BurnedInAnnotation
+  pixelsClearedBy: number | null
+  pixelsClearedByName: string | null
+  pixelsClearedAt: string | null
   version: number
   uploadedBy: number
   createdAt: string
@@ -77,19 +83,63 @@ function toImage(row: RawRow): ImageRow {
     windowWidth: row.window_width as number | null,
     acquiredAt: toIsoDateTimeOrNull(row.acquired_at as Date | null),
     dicomAttributes: parseJson<StoredDicomAttributes>(row.dicom_attributes),
+    burnedInAnnotation: row.burned_in_annotation as BurnedInAnnotation,
+    pixelsClearedBy: (row.pixels_cleared_by as number | null) ?? null,
+    pixelsClearedByName: (row.pixels_cleared_by_name as string | null) ?? null,
+    pixelsClearedAt: toIsoDateTimeOrNull(row.pixels_cleared_at as Date | null),
     version: row.version as number,
     uploadedBy: row.uploaded_by as number,
     createdAt: toIsoDateTime(row.created_at as Date),
   }
 }
 
+/**
+ * Limits an image query (table alias `alias`) to the films held back from researchers: the rule
+ * of isReleasedToResearchers (shared/types/pixel-review.ts) in SQL.
+ */
+export function whereHeldBack(query: Knex.QueryBuilder, alias: string): Knex.QueryBuilder {
+  return query
+    .whereNot(`${alias}.burned_in_annotation`, 'no')
+    .whereNull(`${alias}.pixels_cleared_at`)
+}
+
+/** How many films of each visit are held back from researchers (visits without any are absent). */
+export async function countHeldBackFilmsByVisit(
+  db: Db,
+  visitIds: readonly number[],
+): Promise<Map<number, number>> {
+  if (visitIds.length === 0) return new Map()
+  const rows = (await whereHeldBack(
+    db(`${TABLES.images} as i`).whereIn('i.visit_id', visitIds),
+    'i',
+  )
+    .groupBy('i.visit_id')
+    .select({ visitId: 'i.visit_id' })
+    .count({ count: '*' })) as Array<{ visitId: number; count: number | string }>
+  return new Map(rows.map((row) => [row.visitId, Number(row.count)]))
+}
+
+/** Image rows with the display name of the clinician who cleared their pixels, if any. */
+function selectImages(db: Db) {
+  return db(TABLES.images).select(
+    `${TABLES.images}.*`,
+    db(TABLES.users)
+      .whereRaw('?? = ??', [`${TABLES.users}.id`, `${TABLES.images}.pixels_cleared_by`])
+      .select('display_name')
+      .as('pixels_cleared_by_name'),
+  )
+}
+
 export async function findImage(db: Db, id: number): Promise<ImageRow | undefined> {
-  const row = (await db(TABLES.images).where({ id }).first()) as RawRow | undefined
+  const row = (await selectImages(db).where(`${TABLES.images}.id`, id).first()) as
+    RawRow | undefined
   return row ? toImage(row) : undefined
 }
 
 export async function listImagesOfVisit(db: Db, visitId: number): Promise<ImageRow[]> {
-  const rows = (await db(TABLES.images).where({ visit_id: visitId }).orderBy('id')) as RawRow[]
+  const rows = (await selectImages(db)
+    .where(`${TABLES.images}.visit_id`, visitId)
+    .orderBy(`${TABLES.images}.id`)) as RawRow[]
   return rows.map(toImage)
 }
 
@@ -98,8 +148,9 @@ export async function findImageByHash(
   visitId: number,
   contentHash: string,
 ): Promise<ImageRow | undefined> {
-  const row = (await db(TABLES.images)
-    .where({ visit_id: visitId, content_hash: contentHash })
+  const row = (await selectImages(db)
+    .where(`${TABLES.images}.visit_id`, visitId)
+    .where(`${TABLES.images}.content_hash`, contentHash)
     .first()) as RawRow | undefined
   return row ? toImage(row) : undefined
 }
@@ -136,7 +187,16 @@ export async function referencedKeysByHash(
   return keys
 }
 
-export type NewImage = Omit<ImageRow, 'id' | 'version' | 'createdAt' | 'manualCalibration'>
+export type NewImage = Omit<
+  ImageRow,
+  | 'id'
+  | 'version'
+  | 'createdAt'
+  | 'manualCalibration'
+  | 'pixelsClearedBy'
+  | 'pixelsClearedByName'
+  | 'pixelsClearedAt'
+>
 
 export async function insertImage(db: Db, image: NewImage): Promise<number> {
   const [id] = await db(TABLES.images).insert({
@@ -162,6 +222,7 @@ export async function insertImage(db: Db, image: NewImage): Promise<number> {
     window_width: image.windowWidth,
     acquired_at: image.acquiredAt ? new Date(image.acquiredAt) : null,
     dicom_attributes: image.dicomAttributes ? JSON.stringify(image.dicomAttributes) : null,
+    burned_in_annotation: image.burnedInAnnotation,
     uploaded_by: image.uploadedBy,
   })
   return id as number
@@ -189,6 +250,28 @@ export async function updateImageCalibration(
       version: db.raw('version + 1'),
       updated_at: new Date(),
     })
+  return changed === 1
+}
+
+/**
+ * Records a clinician's confirmation that the film's pixels show no identity, or withdraws it
+ * (`clearedBy` null). Leaves the film's version alone: the review changes nothing a reading or
+ * a calibration rests on. Answers whether the row changed (a repeat changes nothing).
+ */
+export async function updatePixelReview(
+  db: Db,
+  id: number,
+  clearedBy: number | null,
+): Promise<boolean> {
+  const query = db(TABLES.images).where({ id })
+  if (clearedBy === null) query.whereNotNull('pixels_cleared_at')
+  else query.whereNull('pixels_cleared_at')
+  const now = new Date()
+  const changed = await query.update({
+    pixels_cleared_by: clearedBy,
+    pixels_cleared_at: clearedBy === null ? null : now,
+    updated_at: now,
+  })
   return changed === 1
 }
 

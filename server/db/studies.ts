@@ -1,6 +1,7 @@
 import type { Knex } from 'knex'
 import type { Db } from './knex'
 import { TABLES } from './tables'
+import { whereHeldBack } from './images'
 import { toBoolean, toIsoDateTime } from './rows'
 import type { StudyMember, StudySummary } from '../../shared/types/studies'
 
@@ -14,6 +15,7 @@ interface StudyRow {
   updated_at: Date
   patient_count: number | string
   film_count: number | string
+  held_back_film_count: number | string
   reading_count: number | string
   member_count: number | string
 }
@@ -26,6 +28,7 @@ function toStudySummary(row: StudyRow): StudySummary {
     note: row.note,
     patientCount: Number(row.patient_count),
     filmCount: Number(row.film_count),
+    heldBackFilmCount: Number(row.held_back_film_count),
     readingCount: Number(row.reading_count),
     memberCount: Number(row.member_count),
     version: row.version,
@@ -42,6 +45,13 @@ function selectStudies(db: Db): Knex.QueryBuilder {
     .join(`${TABLES.studyPatients} as sp`, 'sp.patient_id', 'v.patient_id')
     .whereRaw('sp.study_id = s.id')
     .count('*')
+  const heldBackFilms = whereHeldBack(
+    db(`${TABLES.images} as i`)
+      .join(`${TABLES.visits} as v`, 'v.id', 'i.visit_id')
+      .join(`${TABLES.studyPatients} as sp`, 'sp.patient_id', 'v.patient_id')
+      .whereRaw('sp.study_id = s.id'),
+    'i',
+  ).count('*')
   // Readings of a re-reading round are blinded and stay out of every clinical count.
   const readings = db(`${TABLES.readings} as r`)
     .join(`${TABLES.images} as i`, 'i.id', 'r.image_id')
@@ -61,6 +71,7 @@ function selectStudies(db: Db): Knex.QueryBuilder {
     's.updated_at',
     patients.as('patient_count'),
     films.as('film_count'),
+    heldBackFilms.as('held_back_film_count'),
     readings.as('reading_count'),
     members.as('member_count'),
   )

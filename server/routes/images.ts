@@ -5,8 +5,14 @@ import type { FileStore } from '../storage/file-store'
 import { validate } from '../middleware/validate'
 import { requirePermission } from '../middleware/require-permission'
 import { idParam } from '../schemas/common'
-import { calibrationBody, renditionParams } from '../schemas/images'
-import { calibrateImage, getImage, openRendition, removeImage } from '../services/images'
+import { calibrationBody, pixelReviewBody, renditionParams } from '../schemas/images'
+import {
+  calibrateImage,
+  getImage,
+  openRendition,
+  removeImage,
+  reviewFilmPixels,
+} from '../services/images'
 import { actorOf } from './actor'
 
 export function imagesRouter(db: Db, store: FileStore): Router {
@@ -38,6 +44,16 @@ export function imagesRouter(db: Db, store: FileStore): Router {
     validate('body', calibrationBody),
     async (req, res) => {
       res.json(await calibrateImage(db, actorOf(req), res.locals.params.id, req.body))
+    },
+  )
+
+  router.put(
+    '/:id/pixel-review',
+    requirePermission('image:review-pixels'),
+    validate('params', idParam),
+    validate('body', pixelReviewBody),
+    async (req, res) => {
+      res.json(await reviewFilmPixels(db, actorOf(req), res.locals.params.id, req.body))
     },
   )
 

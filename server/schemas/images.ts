@@ -1,6 +1,7 @@
 import { z } from 'zod'
 import { IMAGE_VIEWS } from '../../shared/types/domain'
 import type { CalibrationInput } from '../../shared/types/api'
+import type { PixelReviewInput } from '../../shared/types/pixel-review'
 import { pixelCoordinate, rowId, version } from './common'
 
 const viewValue = z.union([z.enum(IMAGE_VIEWS), z.literal('')], {
@@ -37,3 +38,8 @@ export const renditionParams = z.object({
     error: 'must be display, preview, thumbnail or full-depth',
   }),
 })
+
+export const pixelReviewBody = z.strictObject({
+  cleared: z.boolean({ error: 'must be true or false' }),
+  confirmHeaderSaysYes: z.boolean({ error: 'must be true or false' }).optional(),
+}) satisfies z.ZodType<PixelReviewInput>

@@ -63,5 +63,13 @@ export function toImageRecord(
       thumbnail: `${base}/thumbnail?${version}`,
       fullDepth: `${base}/full-depth?${version}`,
     },
+    pixelReview: {
+      burnedInAnnotation: image.burnedInAnnotation,
+      cleared: image.pixelsClearedAt !== null,
+      // Who cleared it, and when, is the clinicians' business (a time can betray a visit date).
+      clearedBy: identified ? image.pixelsClearedBy : null,
+      clearedByName: identified ? image.pixelsClearedByName : null,
+      clearedAt: identified ? image.pixelsClearedAt : null,
+    },
   }
 }

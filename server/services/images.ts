@@ -10,6 +10,7 @@ import {
   insertImage,
   listImagesOfVisit,
   updateImageCalibration,
+  updatePixelReview,
   type FileKind,
   type ImageRow,
   type NewImage,
@@ -26,6 +27,7 @@ import { asNotFound, badRequest, conflict, forbidden, HttpError, notFound } from
 import { mayManageFilm } from '../../shared/types/permissions'
 import { IMAGE_VIEWS, type ImageView } from '../../shared/types/domain'
 import type { CalibrationInput, ImageRecord, PatientMismatch } from '../../shared/types/api'
+import { isReleasedToResearchers, type PixelReviewInput } from '../../shared/types/pixel-review'
 import { actorIdentifies, audit, type Actor } from './audit'
 import { loadVisibleVisit } from './visits'
 import { comparePatient } from './patient-match'
@@ -300,6 +302,8 @@ function newImageRow(visitId: number, actor: Actor, prepared: PreparedFilm): New
     windowCenter: ingested.window.center,
     windowWidth: ingested.window.width,
     acquiredAt: header?.acquisitionDate ?? header?.studyDate ?? null,
+    // Ordinary image files make no claim about their pixels.
+    burnedInAnnotation: header?.burnedInAnnotation ?? 'unknown',
     dicomAttributes: header
       ? {
           modality: header.modality ?? null,
@@ -324,10 +328,21 @@ function newImageRow(visitId: number, actor: Actor, prepared: PreparedFilm): New
   }
 }
 
-/** Loads an image whose visit the actor may see; anything else is a 404. */
+/**
+ * Whether a film is held back from the actor: whoever may not see identity (researchers) is
+ * served only films whose header says NO burned-in annotation or that a clinician has cleared.
+ */
+export function heldBackFrom(actor: Actor, image: ImageRow): boolean {
+  return !identifies(actor) && !isReleasedToResearchers(image)
+}
+
+/**
+ * Loads an image whose visit the actor may see and that is not held back from them; anything
+ * else is a 404, so a held-back film looks absent.
+ */
 export async function loadVisibleImage(db: Db, actor: Actor, imageId: number): Promise<ImageRow> {
   const image = await findImage(db, imageId)
-  if (!image) throw notFound('image')
+  if (!image || heldBackFrom(actor, image)) throw notFound('image')
   try {
     await loadVisibleVisit(db, actor, image.visitId)
   } catch (error) {
@@ -336,15 +351,75 @@ export async function loadVisibleImage(db: Db, actor: Actor, imageId: number): P
   return image
 }
 
+/** A film by id for a path that already checked its visit, or undefined when held back. */
+export async function findServedImage(
+  db: Db,
+  actor: Actor,
+  imageId: number,
+): Promise<ImageRow | undefined> {
+  const image = await findImage(db, imageId)
+  return image && !heldBackFrom(actor, image) ? image : undefined
+}
+
+/** The films of a visit the actor is served (held-back films are left out). */
+export async function listServedImagesOfVisit(
+  db: Db,
+  actor: Actor,
+  visitId: number,
+): Promise<ImageRow[]> {
+  return (await listImagesOfVisit(db, visitId)).filter((image) => !heldBackFrom(actor, image))
+}
+
 export async function listVisitImages(
   db: Db,
   actor: Actor,
   visitId: number,
 ): Promise<ImageRecord[]> {
   await loadVisibleVisit(db, actor, visitId)
-  return (await listImagesOfVisit(db, visitId)).map((image) =>
+  return (await listServedImagesOfVisit(db, actor, visitId)).map((image) =>
     toImageRecord(image, identifies(actor)),
   )
+}
+
+/**
+ * A clinician's confirmation, after looking at the film, that its pixels show no identity (or
+ * its withdrawal). A film whose header says YES declares burned-in text: clearing it needs the
+ * explicit `confirmHeaderSaysYes`, and its DICOM stays refused for download whatever the review.
+ */
+export async function reviewFilmPixels(
+  db: Db,
+  actor: Actor,
+  imageId: number,
+  input: PixelReviewInput,
+): Promise<ImageRecord> {
+  const image = await loadVisibleImage(db, actor, imageId)
+  if (input.cleared && image.burnedInAnnotation === 'yes' && input.confirmHeaderSaysYes !== true) {
+    throw badRequest(
+      "confirmHeaderSaysYes: this film's DICOM header says its pixels carry burned-in annotation; confirm that you have looked and found no identity despite the header's claim",
+      {
+        confirmHeaderSaysYes: [
+          'confirmHeaderSaysYes: required to clear a film whose header says YES',
+        ],
+      },
+    )
+  }
+  await db.transaction(async (trx) => {
+    const changed = await updatePixelReview(trx, imageId, input.cleared ? actor.user.id : null)
+    if (!changed) return
+    await audit(
+      trx,
+      actor,
+      'update',
+      'image',
+      imageId,
+      input.cleared
+        ? `Confirmed no identity in the pixels of film ${imageId} (header: burned-in annotation ${image.burnedInAnnotation})`
+        : `Withdrew the confirmation of no identity in the pixels of film ${imageId}`,
+    )
+  })
+  const updated = await findImage(db, imageId)
+  if (!updated) throw notFound('image')
+  return toImageRecord(updated, identifies(actor))
 }
 
 /** One film; clinicians also get the header's patient attributes, and that view is audited. */

@@ -1,5 +1,5 @@
 import type { Db } from '../db/knex'
-import { findImage, listImagesOfVisit, type ImageRow } from '../db/images'
+import type { ImageRow } from '../db/images'
 import type { PatientRecord } from '../db/patients'
 import { ageInYears, deidentifiedAgeInYears } from '../db/rows'
 import { listVisitsOfPatient, type VisitRecord } from '../db/visits'
@@ -22,7 +22,7 @@ import { renderReportPdf } from '../reports/pdf/report-pdf'
 import { actorIdentifies, audit, type Actor } from './audit'
 import { buildComparison, placeFilm, type PlacedFilm } from './comparisons'
 import { siteSigmaMm } from './film-readings'
-import { loadVisibleImage } from './images'
+import { findServedImage, listServedImagesOfVisit, loadVisibleImage } from './images'
 import { getPlan } from './plans'
 import { dateTimeText, reportReading, visitFor } from './report-readings'
 import { getClinicalReading } from './readings'
@@ -87,7 +87,8 @@ async function readingPart(
   const reading = await getClinicalReading(db, actor, readingId)
   const image = await loadVisibleImage(db, actor, reading.imageId)
   const pairedImage = reading.pairedImageId
-    ? ((await findImage(db, reading.pairedImageId)) ?? null)
+    ? // A held-back extension film is left out of a researcher's report, pixels and all.
+      ((await findServedImage(db, actor, reading.pairedImageId)) ?? null)
     : null
   const visit = visits.find((candidate) => candidate.id === image.visitId) as VisitRecord
   films.set(image.id, image)
@@ -163,10 +164,11 @@ function previousVisitPairs(
 
 async function placedFilmsOf(
   db: Db,
+  actor: Actor,
   visitId: number,
   visits: readonly VisitRecord[],
 ): Promise<PlacedFilm[]> {
-  const images = await listImagesOfVisit(db, visitId)
+  const images = await listServedImagesOfVisit(db, actor, visitId)
   return Promise.all(images.map((image) => placeFilm(db, image, visits)))
 }
 
@@ -180,7 +182,7 @@ async function visitReportParts(
   const visits = await listVisitsOfPatient(db, patient.id)
   const sigmaMm = await siteSigmaMm(db)
   const films = new Map<number, ImageRow>()
-  const current = await placedFilmsOf(db, visitId, visits)
+  const current = await placedFilmsOf(db, actor, visitId, visits)
   const readingIds = [
     ...new Set(
       current
@@ -196,7 +198,7 @@ async function visitReportParts(
   const previousVisit = index > 0 ? visits[index - 1] : undefined
   const comparisons: ReportComparison[] = []
   if (previousVisit) {
-    const previous = await placedFilmsOf(db, previousVisit.id, visits)
+    const previous = await placedFilmsOf(db, actor, previousVisit.id, visits)
     const plan = await getPlan(db, actor, patient.id)
     const identified = actorIdentifies(actor)
     for (const [before, after] of previousVisitPairs(current, previous)) {

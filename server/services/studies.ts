@@ -35,10 +35,16 @@ function memberScope(actor: Actor): number | undefined {
   return actor.user.role === 'researcher' ? actor.user.id : undefined
 }
 
+/** A researcher's film count leaves out the films held back from them. */
+function asSeenBy(actor: Actor, study: StudySummary): StudySummary {
+  if (actor.user.role !== 'researcher') return study
+  return { ...study, filmCount: study.filmCount - study.heldBackFilmCount }
+}
+
 async function loadStudy(db: Db, actor: Actor, id: number): Promise<StudySummary> {
   const study = await findStudy(db, id, memberScope(actor))
   if (!study) throw notFound('study')
-  return study
+  return asSeenBy(actor, study)
 }
 
 async function withMembers(db: Db, study: StudySummary): Promise<Study> {
@@ -68,12 +74,13 @@ export async function listStudies(
   actor: Actor,
   query: StudyQuery,
 ): Promise<Page<StudySummary>> {
-  return searchStudies(db, {
+  const page = await searchStudies(db, {
     q: query.q,
     memberId: memberScope(actor),
     offset: query.offset ?? 0,
     limit: query.limit ?? 20,
   })
+  return { ...page, items: page.items.map((study) => asSeenBy(actor, study)) }
 }
 
 export async function getStudy(db: Db, actor: Actor, id: number): Promise<Study> {

@@ -1,4 +1,5 @@
 import type { Db } from '../db/knex'
+import { countHeldBackFilmsByVisit } from '../db/images'
 import {
   findVisit,
   insertVisit,
@@ -56,8 +57,16 @@ const identifies = actorIdentifies
 export async function listVisits(db: Db, actor: Actor, patientId: number): Promise<Visit[]> {
   const patient = await loadVisiblePatient(db, actor, patientId)
   const visits = await listVisitsOfPatient(db, patientId)
-  if (!identifies(actor))
-    return visits.map((visit, index) => toDeidentifiedVisit(visit, patient, index + 1))
+  if (!identifies(actor)) {
+    const heldBack = await countHeldBackFilmsByVisit(
+      db,
+      visits.map((visit) => visit.id),
+    )
+    return visits.map((visit, index) => ({
+      ...toDeidentifiedVisit(visit, patient, index + 1),
+      heldBackFilmCount: heldBack.get(visit.id) ?? 0,
+    }))
+  }
   await audit(
     db,
     actor,

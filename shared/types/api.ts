@@ -121,6 +121,11 @@ export interface DeidentifiedVisit {
   monthsSinceSurgery: number | null
   /** 90 stands for 90 or older (ages above 89 are grouped). */
   ageAtVisitYears: number
+  /**
+   * On the patient's visit list only: films of the visit held back until a clinician confirms
+   * they show no identity in the pixels (left out of the visit's film list).
+   */
+  heldBackFilmCount?: number
 }
 
 export type Visit = IdentifiedVisit | DeidentifiedVisit
@@ -206,6 +211,8 @@ export interface ImageRecord {
   /** Null for researchers: upload times betray visit dates. */
   createdAt: string | null
   urls: { display: string; preview: string; thumbnail: string; fullDepth: string }
+  /** Whether the pixels may show identity, and a clinician's review of them. */
+  pixelReview: import('./pixel-review').PixelReview
 }
 
 export interface DicomSummary {

@@ -13,6 +13,8 @@ export const PERMISSIONS = {
   'visit:write': ['surgeon', 'fellow'],
   'plan:write': ['surgeon'],
   'image:upload': ['surgeon', 'fellow'],
+  /** Confirm, after looking at a film, that its pixels show no identity (researchers see it then). */
+  'image:review-pixels': ['surgeon', 'fellow'],
   'reading:write': ['surgeon', 'fellow'],
   'reading:sign': ['surgeon'],
   /** The thread beside a reading's results (researchers see none). */

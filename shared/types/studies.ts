@@ -9,8 +9,13 @@ export interface StudySummary {
   /** Working note for the study team (never about an individual patient). */
   note: string | null
   patientCount: number
-  /** Films filed on the study patients' visits. */
+  /** Films filed on the study patients' visits (for researchers, those they are served). */
   filmCount: number
+  /**
+   * Films held back from researchers until a clinician confirms their pixels show no identity
+   * (their DICOM header does not say NO burned-in annotation).
+   */
+  heldBackFilmCount: number
   /** Readings of those films outside re-reading rounds. */
   readingCount: number
   memberCount: number

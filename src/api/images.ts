@@ -1,5 +1,6 @@
 import type { ApiErrorBody, CalibrationInput, ImageRecord } from '@shared/types/api'
 import type { ImageView } from '@shared/types/domain'
+import type { PixelReviewInput } from '@shared/types/pixel-review'
 import { ApiError, http } from './http'
 
 export const listVisitImages = (visitId: number) =>
@@ -8,6 +9,9 @@ export const getImage = (id: number) => http.get<ImageRecord>(`/images/${id}`)
 export const deleteImage = (id: number) => http.delete<void>(`/images/${id}`)
 export const calibrateImage = (id: number, input: CalibrationInput) =>
   http.patch<ImageRecord>(`/images/${id}/calibration`, input)
+
+export const reviewFilmPixels = (id: number, input: PixelReviewInput) =>
+  http.put<ImageRecord>(`/images/${id}/pixel-review`, input)
 
 export interface FilmUpload {
   file: File

@@ -2,7 +2,8 @@ import { ref } from 'vue'
 import { defineStore } from 'pinia'
 import type { ImageRecord } from '@shared/types/api'
 import type { ImageView } from '@shared/types/domain'
-import { deleteImage, listVisitImages, uploadFilm } from '@/api/images'
+import type { PixelReviewInput } from '@shared/types/pixel-review'
+import { deleteImage, listVisitImages, reviewFilmPixels, uploadFilm } from '@/api/images'
 import { ApiError } from '@/api/http'
 
 export type UploadStatus = 'waiting' | 'uploading' | 'done' | 'failed' | 'needs-confirmation'
@@ -103,6 +104,15 @@ export const useImagesStore = defineStore('images', () => {
     await loadForVisit(image.visitId)
   }
 
+  /** A clinician's confirmation that the film shows no identity in its pixels, or its withdrawal. */
+  async function reviewPixels(image: ImageRecord, input: PixelReviewInput): Promise<ImageRecord> {
+    const updated = await reviewFilmPixels(image.id, input)
+    const list = byVisit.value[image.visitId]
+    if (list)
+      byVisit.value[image.visitId] = list.map((film) => (film.id === updated.id ? updated : film))
+    return updated
+  }
+
   return {
     byVisit,
     uploads,
@@ -114,5 +124,6 @@ export const useImagesStore = defineStore('images', () => {
     send,
     sendAll,
     remove,
+    reviewPixels,
   }
 })

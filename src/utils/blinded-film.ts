@@ -33,5 +33,13 @@ export function blindedFilmRecord(imageId: number, film: AssignmentFilm): ImageR
     // Nobody manages a round's film from the blinded workspace.
     uploadedBy: null,
     urls: film.urls,
+    // A rater reads whatever film the round gives; the review is not shown in the blinded workspace.
+    pixelReview: {
+      burnedInAnnotation: 'unknown',
+      cleared: false,
+      clearedBy: null,
+      clearedByName: null,
+      clearedAt: null,
+    },
   }
 }

@@ -111,6 +111,8 @@ describe('GET /api/studies', () => {
       height: 10,
       bits_stored: 8,
       spacing_source: 'none',
+      // Released to researchers, so it counts for them (held-back films: pixel-review tests).
+      burned_in_annotation: 'no',
       uploaded_by: users.fellow.id,
     })
     const reading = {
@@ -132,6 +134,7 @@ describe('GET /api/studies', () => {
         id: mine,
         patientCount: 2,
         filmCount: 1,
+        heldBackFilmCount: 0,
         readingCount: 1,
         memberCount: 1,
       }),

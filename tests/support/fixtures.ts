@@ -1,3 +1,4 @@
+import type { BurnedInAnnotation } from '../../shared/types/pixel-review'
 import type { Db } from '../../server/db/knex'
 import { TABLES } from '../../server/db/tables'
 import { insertPatient } from '../../server/db/patients'
@@ -69,9 +70,15 @@ export async function insertStudyWith(
 
 /**
  * A film row without files, 200 × 200 px at 0.5 mm/px (the reading routes never open the image
- * files; the engine needs only the size and the spacing).
+ * files; the engine needs only the size and the spacing). Its header claim defaults to NO burned-in
+ * annotation, so researchers are served it; pass 'unknown' or 'yes' to test the films held back.
  */
-export async function insertTestFilm(db: Db, visitId: number, uploadedBy: number): Promise<number> {
+export async function insertTestFilm(
+  db: Db,
+  visitId: number,
+  uploadedBy: number,
+  burnedInAnnotation: BurnedInAnnotation = 'no',
+): Promise<number> {
   counter += 1
   const hash = counter.toString(16).padStart(64, '0')
   return insertImage(db, {
@@ -97,6 +104,7 @@ export async function insertTestFilm(db: Db, visitId: number, uploadedBy: number
     windowWidth: null,
     acquiredAt: null,
     dicomAttributes: null,
+    burnedInAnnotation,
     uploadedBy,
   })
 }

@@ -4,6 +4,7 @@ import { ImageError } from '../image-error'
 import { readDate, readNumber, readNumbers, readText, readUint16 } from './dicom-attributes'
 import { pickFilmSpacing, readSpacingAttributes, type FilmSpacing } from './pixel-spacing'
 import { transferSyntaxName } from './transfer-syntax'
+import type { BurnedInAnnotation } from '../../../shared/types/pixel-review'
 import { readViewHints, viewFromHints, type ViewHints } from './view-hint'
 
 export interface PixelModule {
@@ -56,6 +57,8 @@ export interface DicomHeader {
   windows: HeaderWindow[]
   voiLutFunction: VoiLutFunction
   spacing: FilmSpacing
+  /** Burned In Annotation (0028,0301): whether the pixels carry identifying text. */
+  burnedInAnnotation: BurnedInAnnotation
 }
 
 /** Two CS values of A, P, R, L, H and F letters (PS3.3 C.7.6.1.1.1); anything else is null. */
@@ -144,6 +147,18 @@ function readVoiLutFunction(dataSet: DataSet): VoiLutFunction {
   return value === 'SIGMOID' || value === 'LINEAR_EXACT' ? value : 'LINEAR'
 }
 
+/**
+ * Burned In Annotation (0028,0301; DICOM PS3.3 C.7.6.1 General Image Module): its values are
+ * YES and NO. Absent or any other value says nothing, so it is 'unknown' and the film is
+ * treated as possibly showing identity.
+ */
+function readBurnedInAnnotation(dataSet: DataSet): BurnedInAnnotation {
+  const value = readText(dataSet, 'x00280301')?.toUpperCase()
+  if (value === 'YES') return 'yes'
+  if (value === 'NO') return 'no'
+  return 'unknown'
+}
+
 /** Reads the attributes Endplate keeps from a parsed DICOM dataset. */
 export function readDicomHeader(dataSet: DataSet): DicomHeader {
   const transferSyntaxUid = readText(dataSet, 'x00020010') ?? '1.2.840.10008.1.2'
@@ -174,5 +189,6 @@ export function readDicomHeader(dataSet: DataSet): DicomHeader {
     windows: readWindows(dataSet),
     voiLutFunction: readVoiLutFunction(dataSet),
     spacing: pickFilmSpacing(readSpacingAttributes(dataSet)),
+    burnedInAnnotation: readBurnedInAnnotation(dataSet),
   }
 }

@@ -15,6 +15,7 @@ function study(overrides: Partial<Study> = {}): Study {
     note: null,
     patientCount: 2,
     filmCount: 0,
+    heldBackFilmCount: 0,
     readingCount: 0,
     memberCount: 0,
     version: 3,

@@ -99,6 +99,10 @@ export const INPUT_CASES: Record<string, InputCase> = {
         lengthMm: 50,
       }),
   },
+  'PUT /api/images/:id/pixel-review': {
+    params: (w) => id(w.imageId),
+    body: () => ({ cleared: true }),
+  },
   'GET /api/images/:id/files/:name': {
     params: (w) => ({ id: String(w.imageId), name: 'display' }),
   },
