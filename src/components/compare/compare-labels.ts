@@ -1,7 +1,7 @@
 import type { Patient, Visit } from '@shared/types/api'
 import type { ComparisonFilm } from '@shared/types/compare'
 import { TEMPLATE_LABELS } from '@shared/readings/templates'
-import { SPACING_SOURCE_LABELS } from '@shared/readings/result-rows'
+import { SPACING_SOURCE_LABELS } from '@shared/format/spacing-source-labels'
 import { IMAGE_VIEW_WORDS, visitText } from '@shared/reports/visit-text'
 
 const STATUS_WORDS: Record<string, string> = {
