@@ -1,11 +1,12 @@
 import { computed, ref } from 'vue'
 import { defineStore } from 'pinia'
 import type { PixelPoint } from '@shared/types/landmarks'
-import type { Reading, SuggestionAcceptance, SuggestionUse } from '@shared/types/readings'
-import { missingRequiredLandmarks, submitRefusal } from '@shared/readings/reading-rules'
+import type { Reading, SuggestionUse } from '@shared/types/readings'
+import { submitRefusal } from '@shared/readings/reading-rules'
 import type { LandmarkSpec } from '@shared/readings/templates'
 import { useUndoHistory } from '@/composables/use-undo-history'
 import { useLandmarkSelection } from '@/composables/use-landmark-selection'
+import { useSuggestionChoice } from '@/composables/use-suggestion-choice'
 import {
   copyPoints,
   copySnapshot,
@@ -15,16 +16,6 @@ import {
   type PointMap,
 } from '@/utils/landmark-snapshot'
 import { useReadingsStore } from './readings'
-
-/** A corner the image suggests for a placed landmark, waiting for the rater's Enter or Escape. */
-export interface PendingSuggestion {
-  name: string
-  side: FilmSide
-  /** Where the rater put the landmark (the suggestion stands only while it is still there). */
-  from: PixelPoint
-  /** The suggested corner, image px. */
-  at: PixelPoint
-}
 
 /**
  * What the editor reads from the `readings` store. Spelled out, not inferred, because the two
@@ -50,10 +41,6 @@ export const useReadingEditorStore = defineStore('reading-editor', () => {
 
   const points = ref<PointMap>({})
   const pairedPoints = ref<PointMap>({})
-  /** Per landmark: accepted the image's suggestion (true) or kept their own point beside one. */
-  const accepted = ref<SuggestionAcceptance>({})
-  const pairedAccepted = ref<SuggestionAcceptance>({})
-  const suggestion = ref<PendingSuggestion | null>(null)
   /** True between pointer-down and pointer-up on a landmark. */
   const dragging = ref(false)
   const history = useUndoHistory<LandmarkSnapshot>()
@@ -61,7 +48,17 @@ export const useReadingEditorStore = defineStore('reading-editor', () => {
 
   const readOnly = computed(() => readings.readOnly)
   const sidePoints = (side: FilmSide) => (side === 'primary' ? points : pairedPoints)
-  const sideAccepted = (side: FilmSide) => (side === 'primary' ? accepted : pairedAccepted)
+  const choice = useSuggestionChoice({
+    pointsOf: sidePoints,
+    readOnly,
+    edited: () => readings.noteEdit(),
+    step: (change) => {
+      const before = snapshot()
+      change()
+      commitFrom(before)
+    },
+  })
+  const { accepted, pairedAccepted, suggestion } = choice
   const selection = useLandmarkSelection({
     specs: computed(() => readings.specs),
     pointsOf: (side) => sidePoints(side).value,
@@ -79,9 +76,6 @@ export const useReadingEditorStore = defineStore('reading-editor', () => {
           pairedPoints: readings.isPair ? pairedPoints.value : null,
         }
       : null,
-  )
-  const missingRequired = computed(() =>
-    ruleInput.value ? missingRequiredLandmarks(ruleInput.value).map((item) => item.name) : [],
   )
   /** Why Submit is refused now, in the server's words; null when it may be submitted. */
   const submitBlocked = computed(() =>
@@ -143,44 +137,10 @@ export const useReadingEditorStore = defineStore('reading-editor', () => {
     readings.noteEdit()
   }
 
-  /** A landmark placed anew has no suggestion history until one is offered for it. */
-  function forgetSuggestion(name: string, side: FilmSide): void {
-    if (suggestion.value?.name === name && suggestion.value.side === side) suggestion.value = null
-    if (name in sideAccepted(side).value) {
-      const next = { ...sideAccepted(side).value }
-      delete next[name]
-      sideAccepted(side).value = next
-    }
-  }
-
-  /**
-   * The image's answer for a landmark just placed or dropped: shown only while the landmark is
-   * still where it was when asked, and recorded as "own point kept" until the rater accepts.
-   */
-  function offerSuggestion(offer: PendingSuggestion): void {
-    if (readOnly.value) return
-    const current = sidePoints(offer.side).value[offer.name]
-    if (!current || current[0] !== offer.from[0] || current[1] !== offer.from[1]) return
-    suggestion.value = offer
-    sideAccepted(offer.side).value = { ...sideAccepted(offer.side).value, [offer.name]: false }
-    readings.noteEdit()
-  }
-
   /** Enter, or a click on the mark: the landmark moves to the suggestion (one Undo step). */
   function acceptSuggestion(): void {
-    const offer = suggestion.value
-    if (!offer || readOnly.value) return
-    const before = snapshot()
-    sidePoints(offer.side).value[offer.name] = [offer.at[0], offer.at[1]]
-    sideAccepted(offer.side).value = { ...sideAccepted(offer.side).value, [offer.name]: true }
-    suggestion.value = null
-    selectedName.value = offer.name
-    commitFrom(before)
-  }
-
-  /** Escape: the rater's own point stays, as it does when they simply go on. */
-  function declineSuggestion(): void {
-    suggestion.value = null
+    const name = choice.accept()
+    if (name !== null) selectedName.value = name
   }
 
   function placePoint(name: string, pointPx: PixelPoint, side: FilmSide = activeSide.value): void {
@@ -188,7 +148,7 @@ export const useReadingEditorStore = defineStore('reading-editor', () => {
     const before = snapshot()
     suggestion.value = null
     sidePoints(side).value[name] = [pointPx[0], pointPx[1]]
-    forgetSuggestion(name, side)
+    choice.forget(name, side)
     selectedName.value = name
     replacing.value = null
     commitFrom(before)
@@ -213,7 +173,7 @@ export const useReadingEditorStore = defineStore('reading-editor', () => {
     if (dragStart !== null && name !== undefined) {
       const start = side === 'primary' ? dragStart.points[name] : dragStart.pairedPoints[name]
       const now = sidePoints(side).value[name]
-      if (!start || !now || start[0] !== now[0] || start[1] !== now[1]) forgetSuggestion(name, side)
+      if (!start || !now || start[0] !== now[0] || start[1] !== now[1]) choice.forget(name, side)
     }
     if (dragStart !== null) commitFrom(dragStart)
     dragStart = null
@@ -226,7 +186,7 @@ export const useReadingEditorStore = defineStore('reading-editor', () => {
     const next = { ...sidePoints(side).value }
     delete next[name]
     sidePoints(side).value = next
-    forgetSuggestion(name, side)
+    choice.forget(name, side)
     commitFrom(before)
   }
 
@@ -273,7 +233,6 @@ export const useReadingEditorStore = defineStore('reading-editor', () => {
     redoStack: history.redoStack,
     activePoints: selection.activePoints,
     nextName: selection.nextName,
-    missingRequired,
     submitBlocked,
     canUndo,
     canRedo,
@@ -284,9 +243,9 @@ export const useReadingEditorStore = defineStore('reading-editor', () => {
     beginDrag,
     dragPoint,
     endDrag,
-    offerSuggestion,
+    offerSuggestion: choice.offer,
     acceptSuggestion,
-    declineSuggestion,
+    declineSuggestion: choice.decline,
     removePoint,
     undo,
     redo,
