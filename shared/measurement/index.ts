@@ -51,12 +51,18 @@ export {
   SEGMENTS,
 } from './landmark-names'
 export {
+  HIGH_GRADE_SLIP_PERCENT,
   isHighGradeSlip,
   MEYERDING_RULE,
   meyerdingGradeFromSlipPercent,
   roundSlipPercent,
   slipDirectionFromSlipPercent,
 } from './meyerding'
-export { piLlBandFromMismatchDeg, targetLordosisDeg } from './alignment'
+export {
+  PI_LL_MARKED_MISMATCH_DEG,
+  PI_LL_MODERATE_MISMATCH_DEG,
+  piLlBandFromMismatchDeg,
+  targetLordosisDeg,
+} from './alignment'
 export { pelvicParameters } from './pelvis'
 export { SOURCES } from './sources'

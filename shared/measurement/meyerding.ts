@@ -47,10 +47,13 @@ export function slipDirectionFromSlipPercent(slipPercent: number): SlipDirection
   return 'none'
 }
 
+/** Slip above which it is high-grade, % of the endplate depth (Kasliwal et al. [V]). */
+export const HIGH_GRADE_SLIP_PERCENT = 50
+
 /**
  * High-grade slip: > 50 % (Kasliwal et al. [V]), on the rounded value so that it agrees with
  * the grade: exactly 50.0 % is grade II and not high-grade.
  */
 export function isHighGradeSlip(slipPercent: number): boolean {
-  return roundSlipPercent(slipPercent) > 50
+  return roundSlipPercent(slipPercent) > HIGH_GRADE_SLIP_PERCENT
 }

@@ -25,6 +25,7 @@ import * as readingsApi from '../../src/api/readings'
 import * as imagesApi from '../../src/api/images'
 import * as visitsApi from '../../src/api/visits'
 import { useReadingsStore } from '../../src/stores/readings'
+import { useReadingEditorStore } from '../../src/stores/reading-editor'
 import { openTestDb, truncateAll } from '../support/test-db'
 import { buildTestApp, createUsersForEveryRole, type TestUser } from '../support/test-app'
 import { insertTestPatient, insertTestVisit } from '../support/fixtures'
@@ -259,7 +260,7 @@ describe('the submit rule, on the server and in the client', () => {
     await store.load(created.body.id)
     expect(store.loadError).toBeNull()
     expect(store.canSubmit).toBe(rule.submittable)
-    expect(store.submitBlocked).toBe(refusal?.message ?? null)
+    expect(useReadingEditorStore().submitBlocked).toBe(refusal?.message ?? null)
 
     // The server: the same verdict and the same words.
     const submitted = await request(app)

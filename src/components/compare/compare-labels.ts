@@ -1,7 +1,8 @@
 import type { Patient, Visit } from '@shared/types/api'
 import type { ComparisonFilm } from '@shared/types/compare'
 import { TEMPLATE_LABELS } from '@shared/readings/templates'
-import { SPACING_SOURCE_LABELS } from '@shared/readings/result-rows'
+import { SPACING_SOURCE_LABELS } from '@shared/format/spacing-source-labels'
+import { numberWithUnit } from '@shared/format/number-text'
 import { IMAGE_VIEW_WORDS, visitText } from '@shared/reports/visit-text'
 
 const STATUS_WORDS: Record<string, string> = {
@@ -39,7 +40,7 @@ export function calibrationText(side: ComparisonFilm): string {
     reading && side.side === 'paired' ? reading.pairedCalibration : reading?.calibration
   const mmPerPixel = calibration?.mmPerPixel ?? side.image.mmPerPixel
   const source = calibration?.source ?? side.image.spacingSource
-  const spacing = mmPerPixel ? `${mmPerPixel[1].toFixed(4)} mm/px` : 'no mm scale'
+  const spacing = (mmPerPixel && numberWithUnit(mmPerPixel[1], 4, 'mm/px')) || 'no mm scale'
   return `Scale: ${spacing} · ${SPACING_SOURCE_LABELS[source]}`
 }
 

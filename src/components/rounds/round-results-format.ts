@@ -1,4 +1,5 @@
 import type { KooLiBand } from '@shared/statistics/koo-li'
+import { numberText } from '@shared/format/number-text'
 
 /** Plain words for a Koo & Li (2016) band. */
 export const BAND_WORDS: Record<KooLiBand, string> = {
@@ -16,9 +17,8 @@ export function formatStatistic(value: number | null | undefined, digits = 2): s
   if (value === null || value === undefined || Number.isNaN(value)) return '—'
   if (value === Infinity) return '∞'
   if (value === -Infinity) return '−∞'
-  const text = value.toFixed(digits)
-  // A rounded zero keeps no sign; a negative value gets a true minus sign.
-  return Number(text) === 0 ? (0).toFixed(digits) : text.replace('-', '−')
+  // The results' formatter: a rounded zero keeps no sign, a negative value a true minus sign.
+  return numberText(value, digits)
 }
 
 /** "0.71 (0.34 to 0.90)": an estimate with its 95 % confidence interval. */
