@@ -2,13 +2,15 @@
 // database as CSV and as XLSX, beside the same libraries (csv-stringify, exceljs's streaming
 // writer) writing the same rows from memory with no database, in the same run. Target: ratio
 // ≤ 1.5. Memory is printed for 10 000 and 100 000 rows to show it stays flat as rows grow.
-// The rows live in a bench database of their own, seeded once and kept between runs.
+// The rows live in a bench database of their own, seeded at the start of each run and emptied
+// at its end (the exports write audit events, which are not kept).
 // Prints figures only; no assertions.
 import { Writable } from 'node:stream'
 import { config } from '../config'
 import { openMigratedDatabase, truncateAllTables } from '../cli/database-lifecycle'
 import type { Db } from '../db/knex'
 import { TABLES } from '../db/tables'
+import { toResultsColumns } from '../db/reading-results-columns'
 import { insertUser } from '../db/users'
 import { phantomGroundTruth } from '../phantom/generate-phantom'
 import { computeMeasurements, computeUncertainty } from '../../shared/measurement/index'
@@ -86,9 +88,7 @@ async function seed(db: Db): Promise<{ userId: number; smallStudyId: number }> {
       .first()
     return { userId: marked.created_by, smallStudyId: small.id }
   }
-  console.log(
-    `  seeding ${READINGS} readings on ${PATIENTS} patients (once; kept for later runs) ...`,
-  )
+  console.log(`  seeding ${READINGS} readings on ${PATIENTS} patients ...`)
   await truncateAllTables(db)
   const userId = await insertUser(db, {
     email: 'export-bench@bench.invalid',
@@ -105,7 +105,7 @@ async function seed(db: Db): Promise<{ userId: number; smallStudyId: number }> {
     subsidence: null,
     subsidenceBaselineReadingId: null,
   }
-  const resultsJson = JSON.stringify(results)
+  const resultsColumns = toResultsColumns(results)
   const landmarksJson = JSON.stringify(truth.landmarks)
   const patientIds: number[] = []
   for (let start = 0; start < PATIENTS; start += 500) {
@@ -160,7 +160,7 @@ async function seed(db: Db): Promise<{ userId: number; smallStudyId: number }> {
       template_options: '{}',
       landmarks: landmarksJson,
       calibration: JSON.stringify({ mmPerPixel: [0.139, 0.139], source: 'dicom-pixel-spacing' }),
-      results: resultsJson,
+      ...resultsColumns,
       engine_version: 'bench',
       status: 'submitted',
     }))

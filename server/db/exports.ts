@@ -1,9 +1,10 @@
 import type { Knex } from 'knex'
 import type { Db } from './knex'
 import { TABLES } from './tables'
+import { fromResultsColumn } from './reading-results-columns'
 import { parseJson, toIsoDate } from './rows'
 import type { ExportReading } from '../exports/export-columns'
-import type { ReadingCalibration, ReadingResults } from '../../shared/types/readings'
+import type { ReadingCalibration } from '../../shared/types/readings'
 import type { ReadingTemplate, Sex, VisitKind } from '../../shared/types/domain'
 
 export interface ExportFilter {
@@ -33,13 +34,7 @@ function toExportReading(row: RawRow, raterNames: ReadonlyMap<number, string>): 
       mmPerPixel: null,
       source: 'none',
     },
-    results: {
-      measurements: parseJson<ReadingResults['measurements']>(
-        row.measurements,
-      ) as ReadingResults['measurements'],
-      motion: parseJson<ReadingResults['motion']>(row.motion),
-      subsidence: parseJson<ReadingResults['subsidence']>(row.subsidence),
-    },
+    results: fromResultsColumn(row.results),
     raterId: row.rater_id as number,
     raterName: raterNames.get(row.rater_id as number) ?? '',
     visitKind: row.kind as VisitKind,
@@ -76,19 +71,9 @@ function exportQuery(db: Db, filter: ExportFilter): Knex.QueryBuilder {
       'r.status',
       'r.engine_version',
       'r.calibration',
-      // Only the parts of the results the columns read: the uncertainty block is three quarters
-      // of a stored result, and sending and parsing it for every row was most of an export's
-      // time. JSON_QUERY copies the stored fragment (mysql2 parses it as JSON); it stops
-      // scanning at the key, so the keys after the uncertainty block are read only where the
-      // engine writes them: motion for motion pairs, subsidence for construct checks
-      // (computeReadingResults in server/services/readings-results.ts); elsewhere they are null.
-      db.raw("JSON_QUERY(r.results, '$.measurements') as measurements"),
-      db.raw(
-        "CASE WHEN r.template = 'motion-pair' THEN JSON_QUERY(r.results, '$.motion') END as motion",
-      ),
-      db.raw(
-        "CASE WHEN r.template = 'construct-check' THEN JSON_QUERY(r.results, '$.subsidence') END as subsidence",
-      ),
+      // The results without their intervals, which are stored apart (see
+      // server/db/reading-results-columns.ts) and which no export column reads.
+      'r.results',
       'r.rater_id',
       'v.kind',
       'v.visit_date',

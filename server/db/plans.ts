@@ -1,5 +1,6 @@
 import type { Db } from './knex'
 import { TABLES } from './tables'
+import { fromResultsColumn, type ResultsWithoutUncertainty } from './reading-results-columns'
 import { parseJson, toBoolean, toIsoDate, toIsoDateTime, toNumberOrNull } from './rows'
 import type {
   MotionSegment,
@@ -8,7 +9,7 @@ import type {
   ReadingTemplate,
   VisitKind,
 } from '../../shared/types/domain'
-import type { ReadingCalibration, ReadingResults } from '../../shared/types/readings'
+import type { ReadingCalibration } from '../../shared/types/readings'
 import type { TemplateOptions } from '../../shared/readings/templates'
 
 export interface PlanSegmentRecord {
@@ -150,7 +151,8 @@ export interface PatientReadingSummary {
   options: TemplateOptions
   status: ReadingStatus
   calibration: ReadingCalibration
-  results: ReadingResults
+  /** Without the intervals: plans and trends use the values alone. */
+  results: ResultsWithoutUncertainty
   visitId: number
   visitKind: VisitKind
   visitDate: string
@@ -200,7 +202,7 @@ export async function listPatientReadings(
       mmPerPixel: null,
       source: 'none',
     },
-    results: parseJson<ReadingResults>(row.results) as ReadingResults,
+    results: fromResultsColumn(row.results),
     visitId: row.visit_id as number,
     visitKind: row.visit_kind as VisitKind,
     visitDate: toIsoDate(row.visit_date as Date),

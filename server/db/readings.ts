@@ -1,5 +1,6 @@
 import type { Db } from './knex'
 import { TABLES } from './tables'
+import { fromResultsColumns, toResultsColumns } from './reading-results-columns'
 import { parseJson, toBoolean, toIsoDateTime, toIsoDateTimeOrNull } from './rows'
 import type { ReadingStatus, ReadingTemplate } from '../../shared/types/domain'
 import type { LandmarkDocument } from '../../shared/types/landmarks'
@@ -33,6 +34,7 @@ const COLUMNS = [
   'r.calibration',
   'r.paired_calibration',
   'r.results',
+  'r.results_uncertainty',
   'r.engine_version',
   'r.status',
   'r.version',
@@ -72,7 +74,7 @@ function toReading(row: RawRow): ReadingRecord {
       source: 'none',
     },
     pairedCalibration: parseJson<ReadingCalibration>(row.paired_calibration),
-    results: parseJson<ReadingResults>(row.results) as ReadingResults,
+    results: fromResultsColumns(row.results, row.results_uncertainty),
     engineVersion: row.engine_version as string,
     status: row.status as ReadingStatus,
     version: row.version as number,
@@ -156,7 +158,7 @@ function computationColumns(computation: ReadingComputation) {
     paired_calibration: computation.pairedCalibration
       ? JSON.stringify(computation.pairedCalibration)
       : null,
-    results: JSON.stringify(computation.results),
+    ...toResultsColumns(computation.results),
     engine_version: computation.engineVersion,
   }
 }

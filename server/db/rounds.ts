@@ -1,6 +1,7 @@
 import type { Knex } from 'knex'
 import type { Db } from './knex'
 import { TABLES } from './tables'
+import { fromResultsColumn } from './reading-results-columns'
 import { parseJson, toIsoDateTime, toIsoDateTimeOrNull } from './rows'
 import type { Role } from '../../shared/types/domain'
 import type {
@@ -315,6 +316,6 @@ export async function listRoundReadings(
     imageId: row.image_id as number,
     raterId: row.rater_id as number,
     repetition: row.repetition as number,
-    results: parseJson(row.results),
+    results: fromResultsColumn(row.results),
   }))
 }

@@ -18,7 +18,7 @@ export interface ExportReading {
   status: string
   engineVersion: string
   calibration: ReadingCalibration
-  /** The parts of the stored results the columns read (the uncertainty block is not fetched). */
+  /** The parts of the stored results the columns read (the intervals, stored apart, are not fetched). */
   results: Pick<ReadingResults, 'measurements' | 'motion' | 'subsidence'>
   raterId: number
   raterName: string
