@@ -161,19 +161,29 @@ export async function searchPatients(
       }
     })
   }
-  const [{ total }] = (await query.clone().count({ total: '*' })) as [{ total: number | string }]
   // The page's ids in a derived table (ordered on the patients table alone, which an index on
-  // the sort column serves), joined to each patient's details: one statement for the page.
+  // the sort column serves), joined to each patient's details, with the count of every match
+  // as a scalar subquery that MariaDB evaluates once: one statement, one round trip, for the
+  // page and its total. Only a page past the end (no row to carry the total) counts again.
   const order = (builder: Knex.QueryBuilder) =>
     builder.orderBy(SORT_COLUMNS[search.sort], search.order).orderBy('p.id', 'asc')
   const page = order(query.clone().select('p.id'))
     .offset(search.offset)
     .limit(search.limit)
     .as('page')
+  const matching = query.clone().count({ total: '*' })
   const rows = (await order(
-    withPatientDetails(db, db.from(page).join(`${TABLES.patients} as p`, 'p.id', 'page.id')),
-  )) as PatientRow[]
-  return { items: rows.map(toPatient), total: Number(total) }
+    withPatientDetails(db, db.from(page).join(`${TABLES.patients} as p`, 'p.id', 'page.id')).select(
+      matching.clone().as('total_matching'),
+    ),
+  )) as Array<PatientRow & { total_matching: number | string }>
+  const total =
+    rows.length > 0
+      ? Number(rows[0]!.total_matching)
+      : search.offset === 0
+        ? 0
+        : Number(((await matching) as [{ total: number | string }])[0].total)
+  return { items: rows.map(toPatient), total }
 }
 
 export async function findPatient(

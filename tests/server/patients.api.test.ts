@@ -142,6 +142,19 @@ describe('GET /api/patients', () => {
       .get('/api/patients?sort=recordNumber&order=desc&limit=2&offset=2')
       .set('Cookie', users.surgeon.cookie)
     expect(next.body.items.map((p: { recordNumber: string }) => p.recordNumber)).toEqual(['R-001'])
+    expect(next.body.total).toBe(3)
+  })
+
+  it('reports the total on a page past the end, and 0 when nothing matches', async () => {
+    const past = await request(app)
+      .get('/api/patients?limit=2&offset=10')
+      .set('Cookie', users.surgeon.cookie)
+    expect(past.status).toBe(200)
+    expect(past.body).toEqual({ items: [], total: 3 })
+    const none = await request(app)
+      .get('/api/patients?q=nobody-by-this-name')
+      .set('Cookie', users.surgeon.cookie)
+    expect(none.body).toEqual({ items: [], total: 0 })
   })
 
   it('searches names, record numbers and study codes, ignoring case', async () => {
