@@ -177,13 +177,12 @@ export async function searchPatients(
       matching.clone().as('total_matching'),
     ),
   )) as Array<PatientRow & { total_matching: number | string }>
-  const total =
-    rows.length > 0
-      ? Number(rows[0]!.total_matching)
-      : search.offset === 0
-        ? 0
-        : Number(((await matching) as [{ total: number | string }])[0].total)
-  return { items: rows.map(toPatient), total }
+  const items = rows.map(toPatient)
+  if (rows.length > 0) return { items, total: Number(rows[0]!.total_matching) }
+  // No row: nothing matches, or the page lies past the end and only a count can say how many do.
+  if (search.offset === 0) return { items, total: 0 }
+  const [{ total }] = (await matching) as [{ total: number | string }]
+  return { items, total: Number(total) }
 }
 
 export async function findPatient(

@@ -1,16 +1,15 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { createDb, type Db } from '../../server/db/knex'
+import type { Db } from '../../server/db/knex'
 import { config } from '../../server/config'
 import { TABLES } from '../../server/db/tables'
-import { dropAllTables, openMigratedDatabase } from '../../server/cli/database-lifecycle'
+import { dropAllTables } from '../../server/cli/database-lifecycle'
 import { createTestUser } from '../support/test-app'
 import { insertStudyWith } from '../support/fixtures'
-import { workerDatabaseName } from '../support/test-db'
+import { dropScratchSchemaDatabase, openScratchSchemaDatabase } from '../support/test-db'
 
 // `npm run db:reset` on a database holding an implant-centring row: the reset must not depend on
 // the migrations' `down` steps, one of which refuses to drop a template still in use.
 let db: Db
-const name = `${workerDatabaseName()}_reset`
 
 async function tableNames(): Promise<string[]> {
   const [rows] = (await db.raw(
@@ -19,18 +18,11 @@ async function tableNames(): Promise<string[]> {
   return rows.map((row) => row.name)
 }
 
+// A run stopped half-way leaves rows behind: the scratch database starts from empty tables.
 beforeAll(async () => {
-  await (await openMigratedDatabase(config, name)).destroy()
-  // Dropping and migrating is the schema owner's work, as db:reset does it.
-  db = createDb(name, { timeouts: null, account: 'owner' })
-  // A run stopped half-way leaves rows behind: start from empty tables.
-  await dropAllTables(db)
-  await db.migrate.latest()
+  db = await openScratchSchemaDatabase('reset')
 })
-afterAll(async () => {
-  await db.raw(`DROP DATABASE IF EXISTS \`${name}\``)
-  await db.destroy()
-})
+afterAll(() => dropScratchSchemaDatabase(db))
 
 describe('dropAllTables (db:reset)', () => {
   it('drops every table although a migration would refuse to roll back, and migrates afresh', async () => {

@@ -1,22 +1,20 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { createDb, type Db } from '../../server/db/knex'
+import type { Db } from '../../server/db/knex'
 import { config } from '../../server/config'
 import { TABLES } from '../../server/db/tables'
 import { findReading } from '../../server/db/readings'
 import { parseJson } from '../../server/db/rows'
-import { dropAllTables, openMigratedDatabase } from '../../server/cli/database-lifecycle'
 import { phantomGroundTruth } from '../../server/phantom/generate-phantom'
 import { computeMeasurements, computeUncertainty } from '../../shared/measurement/index'
 import type { ReadingResults } from '../../shared/types/readings'
 import { createTestUser } from '../support/test-app'
 import { insertTestFilm, insertTestPatient, insertTestVisit } from '../support/fixtures'
-import { workerDatabaseName } from '../support/test-db'
+import { dropScratchSchemaDatabase, openScratchSchemaDatabase } from '../support/test-db'
 
 // The migration that stores a reading's intervals apart from its other results: rows written
 // before it must read back whole after it, and its `down` must give the old rows back unchanged.
 const MIGRATION = '20261219090000_store_reading_uncertainty_apart.ts'
 let db: Db
-const name = `${workerDatabaseName()}_uncertainty_apart`
 
 const document = phantomGroundTruth({}).landmarks as Parameters<typeof computeMeasurements>[0]
 const withIntervals: ReadingResults = {
@@ -52,16 +50,10 @@ async function storedColumns(id: number) {
 }
 
 beforeAll(async () => {
-  await (await openMigratedDatabase(config, name)).destroy()
-  db = createDb(name, { timeouts: null, account: 'owner' })
-  await dropAllTables(db)
-  await db.migrate.latest()
+  db = await openScratchSchemaDatabase('uncertainty_apart')
   await db.migrate.down({ name: MIGRATION })
 })
-afterAll(async () => {
-  await db.raw(`DROP DATABASE IF EXISTS \`${name}\``)
-  await db.destroy()
-})
+afterAll(() => dropScratchSchemaDatabase(db))
 
 describe('storing the intervals apart (migration)', () => {
   it('splits existing readings, reads them back whole, and its down joins them again', async () => {

@@ -1,6 +1,10 @@
 import { config } from '../../server/config'
 import { createDb, type Db } from '../../server/db/knex'
-import { openMigratedDatabase, truncateAllTables } from '../../server/cli/database-lifecycle'
+import {
+  dropAllTables,
+  openMigratedDatabase,
+  truncateAllTables,
+} from '../../server/cli/database-lifecycle'
 
 /**
  * Each vitest worker gets a database of its own (endplate_test_w1, _w2, ...) so files running in
@@ -32,4 +36,25 @@ export async function seedDemo(db: Db): Promise<void> {
   } finally {
     await owner.destroy()
   }
+}
+
+/**
+ * A database of the worker's own for tests of the schema itself (migrations up and down, a
+ * reset): created when missing, emptied of every table a stopped run left, migrated afresh, and
+ * opened as the schema owner, who alone may alter and drop tables.
+ */
+export async function openScratchSchemaDatabase(suffix: string): Promise<Db> {
+  const name = `${workerDatabaseName()}_${suffix}`
+  await (await openMigratedDatabase(config, name)).destroy()
+  const db = createDb(name, { timeouts: null, account: 'owner' })
+  await dropAllTables(db)
+  await db.migrate.latest()
+  return db
+}
+
+/** Drops a database opened by openScratchSchemaDatabase and closes its pool. */
+export async function dropScratchSchemaDatabase(db: Db): Promise<void> {
+  const { database } = db.client.config.connection as { database: string }
+  await db.raw(`DROP DATABASE IF EXISTS \`${database}\``)
+  await db.destroy()
 }
