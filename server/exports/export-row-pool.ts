@@ -16,10 +16,25 @@ const WORKER_HEAP_MB = 256
 const YOUNG_GENERATION_MB = 64
 
 let pool: Tinypool | null = null
+/** Shares started and not yet settled (running or queued for a worker). */
+let sharesRunning = 0
 
 /** Workers one CSV export runs on: one per core. */
 function shareCount(): number {
   return availableParallelism()
+}
+
+/** Workers the pool may run: two CSV exports at full width. */
+function workerLimit(): number {
+  return 2 * shareCount()
+}
+
+/**
+ * Whether an export of this format would start at once rather than queue behind downloads in
+ * progress (which hold their workers for as long as their readers take).
+ */
+export function exportWorkersFree(format: ExportRowTask['format']): boolean {
+  return sharesRunning + (format === 'csv' ? shareCount() : 1) <= workerLimit()
 }
 
 /**
@@ -34,7 +49,7 @@ function exportPool(): Tinypool {
     filename: new URL('./export-row-worker.mjs', import.meta.url).href,
     name: 'exportRows',
     minThreads: 0,
-    maxThreads: 2 * shareCount(),
+    maxThreads: workerLimit(),
     idleTimeout: 30_000,
     resourceLimits: {
       maxOldGenerationSizeMb: WORKER_HEAP_MB,
@@ -44,7 +59,10 @@ function exportPool(): Tinypool {
   return pool
 }
 
-/** The database and port a pool connects to, for a worker to open its own pool alike. */
+/**
+ * The database and port a pool connects to, for a worker to open its own pool alike. The host
+ * and the account are the configured ones (the application's), as for every API pool.
+ */
 function connectionOf(db: Db): { database: string; databasePort: number } {
   const connection = db.client.config.connection as { database: string; port: number }
   return { database: connection.database, databasePort: connection.port }
@@ -68,7 +86,9 @@ function openWorkerShare(
   let ended = false
   const send = (message: ExportControlMessage) => channel.postMessage(message)
   const stream = new Readable({
+    // One batch waits here at most; the worker holds the next few (BATCHES_AHEAD).
     objectMode: true,
+    highWaterMark: 1,
     read() {
       // The reader wants more: pay back the batches held while it was busy.
       for (; owed > 0; owed -= 1) send('more')
@@ -85,6 +105,8 @@ function openWorkerShare(
       stream.push(null)
       return
     }
+    // Rows that arrive after the download was cut short were never written: not counted.
+    if (stream.destroyed) return
     let wantsMore = true
     if (message.type === 'csv') {
       onRows(message.rows)
@@ -103,12 +125,16 @@ function openWorkerShare(
     identified,
     format,
   }
+  sharesRunning += 1
   exportPool()
     .run(task, { transferList: [workerChannel] })
     .catch((error: unknown) => {
       ended = true
       channel.close()
       stream.destroy(error instanceof Error ? error : new Error(String(error)))
+    })
+    .finally(() => {
+      sharesRunning -= 1
     })
   return stream
 }
@@ -137,7 +163,7 @@ export function openCsvRecordStreamInWorkers(
   const shares = Array.from({ length: count }, (_, index) =>
     openWorkerShare(db, { ...filter, share: { count, index } }, identified, 'csv', onRows),
   )
-  const merged = new PassThrough({ objectMode: true })
+  const merged = new PassThrough({ objectMode: true, highWaterMark: 1 })
   let open = shares.length
   for (const share of shares) {
     share.pipe(merged, { end: false })

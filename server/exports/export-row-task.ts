@@ -32,9 +32,9 @@ export type ExportControlMessage = 'more' | 'stop'
  * Rows per message, rounded up to whole readings: few enough messages that posting costs little,
  * small enough to stay young.
  */
-export const ROWS_PER_BATCH = 256
+const ROWS_PER_BATCH = 256
 /** Batches the worker may send ahead of the main thread's writer before it waits. */
-export const BATCHES_AHEAD = 4
+const BATCHES_AHEAD = 4
 
 /**
  * The worker's own connection pool per database, kept while the worker lives: a worker runs
@@ -59,26 +59,26 @@ function poolFor(database: string, port: number): Db {
  * the main thread instead of adding to it. Answers the number of rows sent.
  */
 export async function exportRows(task: ExportRowTask): Promise<number> {
-  const db = poolFor(task.database, task.databasePort)
-  const columns = exportColumns(task.identified)
-  const source = await openExportReadingStream(db, task.filter)
   const port = task.channel
-  let batch: Cell[][] = []
-  let sent = 0
-  let ahead = 0
-  let stopped = false
-  const send = () => {
-    port.postMessage(
-      (task.format === 'csv'
-        ? { type: 'csv', text: stringify(batch, CSV_OPTIONS), rows: batch.length }
-        : { type: 'rows', rows: batch }) satisfies ExportRowMessage,
-    )
-    sent += batch.length
-    batch = []
-    ahead += 1
-    if (ahead >= BATCHES_AHEAD) source.pause()
-  }
   try {
+    const db = poolFor(task.database, task.databasePort)
+    const columns = exportColumns(task.identified)
+    const source = await openExportReadingStream(db, task.filter)
+    let batch: Cell[][] = []
+    let sent = 0
+    let ahead = 0
+    let stopped = false
+    const send = () => {
+      port.postMessage(
+        (task.format === 'csv'
+          ? { type: 'csv', text: stringify(batch, CSV_OPTIONS), rows: batch.length }
+          : { type: 'rows', rows: batch }) satisfies ExportRowMessage,
+      )
+      sent += batch.length
+      batch = []
+      ahead += 1
+      if (ahead >= BATCHES_AHEAD) source.pause()
+    }
     await new Promise<void>((resolve, reject) => {
       port.on('message', (message: ExportControlMessage) => {
         if (message === 'stop') {
@@ -92,12 +92,20 @@ export async function exportRows(task: ExportRowTask): Promise<number> {
       })
       // Whole readings per batch, so that a reading's rows stay together when shares interleave.
       source.on('data', (reading: ExportReading) => {
-        for (const row of readingRows(columns, reading)) batch.push(row)
-        if (batch.length >= ROWS_PER_BATCH) send()
+        try {
+          for (const row of readingRows(columns, reading)) batch.push(row)
+          if (batch.length >= ROWS_PER_BATCH) send()
+        } catch (error) {
+          source.destroy(error as Error)
+        }
       })
       source.on('end', () => {
-        if (batch.length > 0) send()
-        resolve()
+        try {
+          if (batch.length > 0) send()
+          resolve()
+        } catch (error) {
+          reject(error)
+        }
       })
       source.on('error', reject)
     })

@@ -1,5 +1,6 @@
 import { once } from 'node:events'
-import { Readable, type Writable } from 'node:stream'
+import { PassThrough, Readable, type Writable } from 'node:stream'
+import { setImmediate } from 'node:timers/promises'
 import { pipeline } from 'node:stream/promises'
 import { stringify } from 'csv-stringify'
 import { stringify as stringifySync } from 'csv-stringify/sync'
@@ -41,38 +42,51 @@ export async function writeCsvRecords(
   await pipeline(records, out)
 }
 
-/** Waits until `out` wants more, and fails if it closed instead (a download cut short). */
-async function drainedOrClosed(out: Writable): Promise<void> {
-  await Promise.race([once(out, 'drain'), once(out, 'close')])
+/** Fails once `out` was closed before the end (a download cut short). */
+function failIfClosed(out: Writable): void {
   if (out.destroyed) throw new Error('The download was closed before the end.')
 }
+
+/** Rows committed between two looks at the download: the zip gets a turn of the event loop. */
+const XLSX_ROWS_PER_TURN = 256
 
 /**
  * Streams sheets as one XLSX workbook into `out` with exceljs's streaming writer: each row is
  * committed (written and forgotten) as it comes, inline strings instead of a shared-strings
- * table, no styles; the producer waits whenever `out` asks it to. Answers the data rows of each
- * sheet.
+ * table, no styles. exceljs buffers what it has not zipped yet without asking anyone to wait,
+ * so the workbook goes to `out` through a stream of our own: every few hundred rows the zip
+ * gets a turn of the event loop, and the rows wait while that stream waits for `out` (a slow
+ * download) and stop when `out` closes.
  */
-export async function writeXlsx(sheets: TableSheet[], out: Writable): Promise<number[]> {
+export async function writeXlsx(sheets: TableSheet[], out: Writable): Promise<void> {
+  const zipped = new PassThrough()
+  const delivered = pipeline(zipped, out)
+  // Failures are read from `out` below; this only keeps an early one from going unhandled.
+  delivered.catch(() => {})
   const workbook = new ExcelJS.stream.xlsx.WorkbookWriter({
-    stream: out,
+    stream: zipped,
     useStyles: false,
     useSharedStrings: false,
   })
-  const counts: number[] = []
   for (const sheet of sheets) {
     const worksheet = workbook.addWorksheet(sheet.name)
     worksheet.addRow(sheet.headers).commit()
-    let count = 0
+    // A stream's rows come typed as any; these are rows of cells.
     const rows: AsyncIterable<Cell[]> | Iterable<Cell[]> = sheet.rows
+    let count = 0
     for await (const row of rows) {
       worksheet.addRow(row.map((cell) => cell ?? undefined)).commit()
       count += 1
-      if (out.writableNeedDrain) await drainedOrClosed(out)
+      if (count % XLSX_ROWS_PER_TURN === 0) {
+        await setImmediate()
+        while (zipped.writableNeedDrain && !out.destroyed) {
+          await Promise.race([once(zipped, 'drain'), once(out, 'close')])
+        }
+        failIfClosed(out)
+      }
     }
     worksheet.commit()
-    counts.push(count)
   }
-  await workbook.commit()
-  return counts
+  failIfClosed(out)
+  await Promise.all([workbook.commit(), delivered])
 }

@@ -2,11 +2,7 @@ import type { Writable } from 'node:stream'
 import type { Db } from '../db/knex'
 import { findStudy } from '../db/studies'
 import { countExportRows, type ExportFilter } from '../db/exports'
-import {
-  openCsvRecordStreamInWorkers,
-  openRowStreamInWorker,
-  warmExportWorkers,
-} from '../exports/export-row-pool'
+import { openCsvRecordStreamInWorkers, openRowStreamInWorker } from '../exports/export-row-pool'
 import { forbidden, notFound } from '../errors'
 import { exportColumns, type ExportColumn } from '../exports/export-columns'
 import { dataDictionaryRows, DATA_DICTIONARY_HEADERS } from '../exports/data-dictionary'
@@ -136,6 +132,5 @@ export async function countMeasurementExport(
   db: Db,
   prepared: PreparedExport,
 ): Promise<{ readings: number; rows: number }> {
-  void warmExportWorkers()
   return countExportRows(db, prepared.filter)
 }
