@@ -6,16 +6,22 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import type { Db } from '../../server/db/knex'
 import { createDb } from '../../server/db/knex'
 import { TABLES } from '../../server/db/tables'
-import { insertUser } from '../../server/db/users'
 import { toResultsColumns } from '../../server/db/reading-results-columns'
 import { openMeasurementRowStream } from '../../server/exports/export-rows'
-import { closeExportPool, openCsvRecordStreamInWorkers } from '../../server/exports/export-row-pool'
+import {
+  closeExportPool,
+  exportWorkersFree,
+  openCsvRecordStreamInWorkers,
+} from '../../server/exports/export-row-pool'
 import { writeCsv } from '../../server/exports/write-table'
 import { prepareMeasurementExport, writeMeasurementExport } from '../../server/services/exports'
 import type { Actor } from '../../server/services/audit'
 import { phantomGroundTruth } from '../../server/phantom/generate-phantom'
 import { computeMeasurements } from '../../shared/measurement/index'
+import request from 'supertest'
+import type { Express } from 'express'
 import { openTestDb, truncateAll } from '../support/test-db'
+import { buildTestApp, createTestUser, type TestUser } from '../support/test-app'
 import { insertTestFilm, insertTestPatient, insertTestVisit } from '../support/fixtures'
 
 const FILMS = 24
@@ -26,6 +32,8 @@ const SEGMENT_ROWS = 5
 
 let db: Db
 let actor: Actor
+let app: Express
+let surgeon: TestUser
 
 /** A sink that keeps every byte (and, like a socket, makes the writer wait now and then). */
 function collector(): Writable & { text: () => string } {
@@ -41,20 +49,33 @@ function collector(): Writable & { text: () => string } {
   return sink
 }
 
+/** A download that takes its first chunk and then stops reading (a stalled client). */
+function stalledDownload(): Writable {
+  return new Writable({
+    highWaterMark: 1024,
+    write() {},
+  })
+}
+
+/** Waits (at most five seconds) until `condition` holds. */
+async function until(condition: () => boolean): Promise<void> {
+  for (let attempt = 0; attempt < 100 && !condition(); attempt += 1) {
+    await new Promise((resolve) => setTimeout(resolve, 50))
+  }
+}
+
 /** The data records of a CSV, sorted: the same multiset whatever order the readings came in. */
 const sortedRecords = (csv: string) => csv.trimEnd().split('\n').slice(1).sort()
 
 beforeAll(async () => {
   db = await openTestDb()
   await truncateAll(db)
-  const userId = await insertUser(db, {
-    email: 'export-workers@test.example',
-    displayName: 'Test surgeon',
-    role: 'surgeon',
-    passwordHash: 'not used',
-  })
+  const built = buildTestApp(db)
+  app = built.app
+  surgeon = await createTestUser(db, built.config, 'surgeon')
+  const userId = surgeon.id
   actor = {
-    user: { id: userId, email: 'export-workers@test.example', displayName: 'x', role: 'surgeon' },
+    user: { id: userId, email: surgeon.email, displayName: 'Test surgeon', role: 'surgeon' },
     ip: null,
   }
   const truth = phantomGroundTruth({})
@@ -202,5 +223,29 @@ describe('an export read on worker threads', () => {
     } finally {
       await missing.destroy()
     }
+  })
+
+  it('answers 503 with Retry-After while two stalled downloads hold every worker', async () => {
+    const prepared = await prepareMeasurementExport(db, actor, {})
+    const stalled = [stalledDownload(), stalledDownload()]
+    const holding = stalled.map((download) =>
+      writeMeasurementExport(db, actor, prepared, 'csv', download).catch(() => 0),
+    )
+    const refused = await request(app)
+      .get('/api/exports/measurements.csv')
+      .set('Cookie', surgeon.cookie)
+    expect(refused.status).toBe(503)
+    expect(refused.headers['retry-after']).toBe('30')
+    expect(refused.body.error.code).toBe('busy')
+    for (const download of stalled) download.destroy()
+    await Promise.all(holding)
+    await until(() => exportWorkersFree('csv'))
+    const served = await request(app)
+      .get('/api/exports/measurements.csv')
+      .set('Cookie', surgeon.cookie)
+    expect(served.status).toBe(200)
+    expect(served.text.trimEnd().split('\n')).toHaveLength(
+      1 + FILMS * READINGS_PER_FILM * SEGMENT_ROWS,
+    )
   })
 })
