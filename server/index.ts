@@ -9,6 +9,7 @@ import { createMailSender } from './mail/mail-sender'
 import { createLocalFileStore } from './storage/local-file-store'
 import { sweepUploadLeftovers } from './services/upload-sweep'
 import { closeIngestPool } from './images/ingest/ingest-pool'
+import { closeExportPool } from './exports/export-row-pool'
 import { createAuditSealer } from './services/audit-sealer'
 
 /**
@@ -70,6 +71,7 @@ export async function startServer(): Promise<{
       await sender.stop()
       await catcher?.close()
       await closeIngestPool()
+      await closeExportPool()
       await sealer.stop()
       // The last events of this run get their seal now rather than from the next start.
       await sealer.sealNow().catch((error: unknown) => {

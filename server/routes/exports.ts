@@ -11,12 +11,17 @@ import {
   type ExportFormat,
 } from '../services/exports'
 import { writeCsv } from '../exports/write-table'
+import { exportWorkersFree, warmExportWorkers } from '../exports/export-row-pool'
+import { HttpError } from '../errors'
 import { actorOf } from './actor'
 
 const MEDIA_TYPES: Record<ExportFormat, string> = {
   csv: 'text/csv; charset=utf-8',
   xlsx: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet',
 }
+
+/** Seconds a refused export is asked to wait: about what a large export takes to download. */
+const EXPORT_RETRY_AFTER_SECONDS = 30
 
 function startDownload(res: Response, format: ExportFormat, fileName: string): void {
   res.setHeader('Content-Type', MEDIA_TYPES[format])
@@ -34,6 +39,8 @@ export function exportsRouter(db: Db): Router {
     validate('query', measurementExportQuery),
     async (req, res) => {
       const prepared = await prepareMeasurementExport(db, actorOf(req), res.locals.query)
+      // The client asks the size just before a download: the workers start loading meanwhile.
+      void warmExportWorkers()
       res.json(await countMeasurementExport(db, prepared))
     },
   )
@@ -47,6 +54,14 @@ export function exportsRouter(db: Db): Router {
         const actor = actorOf(req)
         // Every check happens before the first byte, so refusals still answer a JSON error.
         const prepared = await prepareMeasurementExport(db, actor, res.locals.query)
+        if (!exportWorkersFree(format === 'csv' ? 'csv' : 'rows')) {
+          res.setHeader('Retry-After', String(EXPORT_RETRY_AFTER_SECONDS))
+          throw new HttpError(
+            503,
+            'busy',
+            `Other exports are downloading right now. Try again in ${EXPORT_RETRY_AFTER_SECONDS} seconds.`,
+          )
+        }
         startDownload(res, format, `${prepared.fileStem}.${format}`)
         await writeMeasurementExport(db, actor, prepared, format, res).catch((error) => {
           // Headers are gone; cut the connection so the client sees an incomplete download.

@@ -1,20 +1,14 @@
 import type { Writable } from 'node:stream'
 import type { Db } from '../db/knex'
 import { findStudy } from '../db/studies'
-import { countExportRows, streamExportReadings, type ExportFilter } from '../db/exports'
+import { countExportRows, type ExportFilter } from '../db/exports'
+import { openCsvRecordStreamInWorkers, openRowStreamInWorker } from '../exports/export-row-pool'
 import { forbidden, notFound } from '../errors'
-import {
-  exportColumns,
-  type Cell,
-  type ExportColumn,
-  type ExportReading,
-  type ExportRowContext,
-} from '../exports/export-columns'
+import { exportColumns, type ExportColumn } from '../exports/export-columns'
 import { dataDictionaryRows, DATA_DICTIONARY_HEADERS } from '../exports/data-dictionary'
 import { escapeSpreadsheetText } from '../exports/formula-escape'
-import { writeCsv, writeXlsx, type TableSheet } from '../exports/write-table'
+import { writeCsvRecords, writeXlsx, type TableSheet } from '../exports/write-table'
 import type { MeasurementExportQuery } from '../schemas/exports'
-import { MOTION_SEGMENTS } from '../../shared/types/domain'
 import { actorIdentifies, audit, type Actor } from './audit'
 
 export type ExportFormat = 'csv' | 'xlsx'
@@ -68,39 +62,6 @@ export async function prepareMeasurementExport(
   }
 }
 
-/** One cell of a row: text escaped against formula injection; numbers and empties as they are. */
-function cellOf(column: ExportColumn, context: ExportRowContext): Cell {
-  const value = column.value(context)
-  return typeof value === 'string' ? escapeSpreadsheetText(value) : value
-}
-
-/**
- * The rows of one reading: one per measured segment (cranial to caudal), or one without a
- * segment. The reading's own cells are computed once and copied into each of its rows; only the
- * per-segment columns are computed per row.
- */
-export function readingRows(columns: ExportColumn[], reading: ExportReading): Cell[][] {
-  const shared = columns.map((column) => cellOf(column, { reading, segment: null }))
-  const measured = reading.results?.measurements?.segments ?? {}
-  const segments = MOTION_SEGMENTS.filter((segment) => measured[segment] !== undefined)
-  if (segments.length === 0) return [shared]
-  return segments.map((segment) => {
-    const row = shared.slice()
-    for (let index = 0; index < columns.length; index += 1) {
-      const column = columns[index]!
-      if (column.perSegment) row[index] = cellOf(column, { reading, segment })
-    }
-    return row
-  })
-}
-
-/** One row per reading and measured segment, reading after reading. */
-export async function* measurementRows(db: Db, prepared: PreparedExport): AsyncGenerator<Cell[]> {
-  for await (const reading of streamExportReadings(db, prepared.filter)) {
-    for (const row of readingRows(prepared.columns, reading)) yield row
-  }
-}
-
 function dictionarySheet(columns: ExportColumn[]): TableSheet {
   return {
     name: 'Data dictionary',
@@ -118,22 +79,32 @@ export async function writeMeasurementExport(
   out: Writable,
 ): Promise<number> {
   let rows = 0
-  const sheet: TableSheet = {
-    name: 'Measurements',
-    headers: prepared.columns.map((column) => column.header),
-    rows: (async function* counted() {
-      for await (const row of measurementRows(db, prepared)) {
-        rows += 1
-        yield row
-      }
-    })(),
+  const counted = (count: number) => {
+    rows += count
   }
+  const headers = prepared.columns.map((column) => column.header)
+  const { filter, identified } = prepared
+  // Read and computed in worker threads: CSV records by one worker per core, each taking a
+  // share of the films; XLSX rows by one worker while exceljs writes here.
+  const source =
+    format === 'csv'
+      ? openCsvRecordStreamInWorkers(db, filter, identified, counted)
+      : openRowStreamInWorker(db, filter, identified, counted)
   let failure: unknown
   try {
-    if (format === 'csv') await writeCsv(sheet, out)
-    else await writeXlsx([sheet, dictionarySheet(prepared.columns)], out)
+    if (format === 'csv') await writeCsvRecords(headers, source, out)
+    else {
+      const sheets = [
+        { name: 'Measurements', headers, rows: source },
+        dictionarySheet(prepared.columns),
+      ]
+      await writeXlsx(sheets, out)
+    }
   } catch (error) {
     failure = error
+  } finally {
+    // Stops the workers' queries when the download ended early; nothing after a complete one.
+    source.destroy()
   }
   const outcome = failure === undefined ? '' : ' (stopped before the end)'
   await audit(

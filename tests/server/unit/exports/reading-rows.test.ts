@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { readingRows } from '../../../../server/services/exports'
+import { readingRows } from '../../../../server/exports/export-rows'
 import {
   exportColumns,
   type Cell,
