@@ -31,7 +31,11 @@ export function readingRows(columns: ExportColumn[], reading: ExportReading): Ce
   })
 }
 
-/** One row per reading and measured segment, reading after reading, as an object stream. */
+/**
+ * One row per reading and measured segment, reading after reading, as an object stream, read in
+ * this thread: the reference the worker threads' export is tested against, and the bench's
+ * sample rows. Downloads read through export-row-pool.ts.
+ */
 export async function openMeasurementRowStream(
   db: Db,
   filter: ExportFilter,
