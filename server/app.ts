@@ -98,8 +98,11 @@ export function createApp({
       logger,
       autoLogging: { ignore: (req) => req.url === '/api/health' },
       // Method and path only: headers, query strings and bodies can carry credentials or names.
+      // The answer's status only: its headers (a session cookie among them) are no one's
+      // business in a log, and writing them out was a large part of a small request's CPU.
       serializers: {
         req: (req) => ({ method: req.method, url: String(req.url).split('?')[0] }),
+        res: (res) => ({ statusCode: res.statusCode }),
         err: serializeError,
       },
     }),

@@ -80,3 +80,23 @@ describe('the application log on an unexpected database error', () => {
       expect(log).not.toContain(value)
   })
 })
+
+describe('the application log of each request', () => {
+  it('names the method, path and status, and no header of the answer', async () => {
+    const signIn = await request(app)
+      .post('/api/auth/login')
+      .set('Sec-Fetch-Site', 'same-origin')
+      .send({ email: users.fellow.email, password: users.fellow.password })
+    expect(signIn.status).toBe(200)
+    expect(signIn.headers['set-cookie']).toBeDefined()
+    const line = logLines
+      .map((text) => JSON.parse(text))
+      .find((entry) => entry.req?.url === '/api/auth/login')
+    expect(line).toMatchObject({
+      req: { method: 'POST', url: '/api/auth/login' },
+      res: { statusCode: 200 },
+    })
+    expect(Object.keys(line.res)).toEqual(['statusCode'])
+    expect(logLines.join('')).not.toMatch(/set-cookie|content-security-policy/i)
+  })
+})
