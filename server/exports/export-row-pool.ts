@@ -33,7 +33,7 @@ function workerLimit(): number {
  * Whether an export of this format would start at once rather than queue behind downloads in
  * progress (which hold their workers for as long as their readers take).
  */
-export function exportWorkersFree(format: ExportRowTask['format']): boolean {
+export function exportWorkersFree(format: 'csv' | 'xlsx'): boolean {
   return sharesRunning + (format === 'csv' ? shareCount() : 1) <= workerLimit()
 }
 
@@ -180,9 +180,9 @@ export function openCsvRecordStreamInWorkers(
 }
 
 /**
- * Starts the workers of one export ahead of it (a download's size is asked just before the
- * download), so the download does not wait for threads to load their code. Never fails: an
- * export whose workers cannot start reports that itself.
+ * Starts the workers of one export ahead of it (the export panel asks a download's size as its
+ * filters change), so the download does not wait for threads to load their code. Never fails:
+ * an export whose workers cannot start reports that itself.
  */
 export async function warmExportWorkers(): Promise<void> {
   const workers = exportPool()

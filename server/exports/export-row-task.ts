@@ -21,9 +21,7 @@ export interface ExportRowTask {
 
 /** Messages from the worker to the main thread. */
 export type ExportRowMessage =
-  | { type: 'rows'; rows: Cell[][] }
-  | { type: 'csv'; text: string; rows: number }
-  | { type: 'end'; rows: number }
+  { type: 'rows'; rows: Cell[][] } | { type: 'csv'; text: string; rows: number } | { type: 'end' }
 
 /** Messages from the main thread to the worker. */
 export type ExportControlMessage = 'more' | 'stop'
@@ -53,10 +51,11 @@ function poolFor(database: string, port: number): Db {
 }
 
 /**
- * Reads an export's readings from MariaDB, parses their results and computes every cell, and
- * posts the rows to the main thread in batches, never more than BATCHES_AHEAD ahead of it.
- * Runs in a worker thread, so that this half of an export overlaps the writing of the file on
- * the main thread instead of adding to it. Answers the number of rows sent.
+ * Reads an export's readings (or its share of them) from MariaDB, parses their results,
+ * computes every cell and, for a CSV, writes the records; posts them to the main thread in
+ * batches, never more than BATCHES_AHEAD ahead of it. Runs in a worker thread, so that none of
+ * this runs on the API's event loop and a CSV's shares run side by side. Answers the number of
+ * rows sent.
  */
 export async function exportRows(task: ExportRowTask): Promise<number> {
   const port = task.channel
@@ -109,7 +108,7 @@ export async function exportRows(task: ExportRowTask): Promise<number> {
       })
       source.on('error', reject)
     })
-    if (!stopped) port.postMessage({ type: 'end', rows: sent } satisfies ExportRowMessage)
+    if (!stopped) port.postMessage({ type: 'end' } satisfies ExportRowMessage)
     return sent
   } finally {
     port.close()

@@ -45,8 +45,12 @@ export async function openMeasurementRowStream(
   const rows = new Transform({
     objectMode: true,
     transform(reading: ExportReading, _encoding, done) {
-      for (const row of readingRows(columns, reading)) this.push(row)
-      done()
+      try {
+        for (const row of readingRows(columns, reading)) this.push(row)
+        done()
+      } catch (error) {
+        done(error as Error)
+      }
     },
   })
   // A failure of the query destroys `rows` with its error, which is how the reader hears of it.

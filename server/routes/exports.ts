@@ -39,7 +39,7 @@ export function exportsRouter(db: Db): Router {
     validate('query', measurementExportQuery),
     async (req, res) => {
       const prepared = await prepareMeasurementExport(db, actorOf(req), res.locals.query)
-      // The client asks the size just before a download: the workers start loading meanwhile.
+      // The export panel asks the size before any download: the workers start loading meanwhile.
       void warmExportWorkers()
       res.json(await countMeasurementExport(db, prepared))
     },
@@ -54,7 +54,7 @@ export function exportsRouter(db: Db): Router {
         const actor = actorOf(req)
         // Every check happens before the first byte, so refusals still answer a JSON error.
         const prepared = await prepareMeasurementExport(db, actor, res.locals.query)
-        if (!exportWorkersFree(format === 'csv' ? 'csv' : 'rows')) {
+        if (!exportWorkersFree(format)) {
           res.setHeader('Retry-After', String(EXPORT_RETRY_AFTER_SECONDS))
           throw new HttpError(
             503,
