@@ -106,6 +106,8 @@ export async function truncateAllTables(db: Db): Promise<void> {
       try {
         for (const table of TABLES_CHILDREN_FIRST) await trx.raw(`TRUNCATE TABLE \`${table}\``)
         await trx(TABLES.auditChainHead).insert({ id: 1, last_seq: 0, last_hash: GENESIS_HASH })
+        // TRUNCATE fires no trigger: the patient total starts again with the empty table.
+        await trx(TABLES.patientTotal).insert({ id: 1, total: 0 })
       } finally {
         await trx.raw('SET FOREIGN_KEY_CHECKS = 1')
       }

@@ -12,8 +12,15 @@ const APPEND_ONLY_TABLES: readonly string[] = [TABLES.auditEvents, TABLES.auditS
  * owner's rights), emptied by the sealer.
  */
 const QUEUE_TABLES: readonly string[] = [TABLES.auditUnsealed]
-/** Knex's own bookkeeping: the health probe reads it; only the owner migrates. */
-const READ_ONLY_TABLES: readonly string[] = ['knex_migrations', 'knex_migrations_lock']
+/**
+ * Knex's own bookkeeping (the health probe reads it; only the owner migrates), and the patient
+ * total, which only the triggers on patients change.
+ */
+const READ_ONLY_TABLES: readonly string[] = [
+  'knex_migrations',
+  'knex_migrations_lock',
+  TABLES.patientTotal,
+]
 
 const ROW_RIGHTS = ['SELECT', 'INSERT', 'UPDATE', 'DELETE'] as const
 

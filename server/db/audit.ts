@@ -1,6 +1,7 @@
 import type { Knex } from 'knex'
 import type { Db } from './knex'
 import { TABLES } from './tables'
+import { batcherPerPool, batchPerTurn } from './turn-batch'
 
 export interface AuditEntry {
   userId: number | null
@@ -49,7 +50,16 @@ function outermost(trx: Knex.Transaction): Knex.Transaction {
  * records, so the event and the write commit or fail together.
  */
 export async function insertAuditEvent(db: Db, entry: AuditEntry): Promise<void> {
-  await db(TABLES.auditEvents).insert({
+  const row = auditRow(entry)
+  if (!db.isTransaction) return auditInserts(db).load(row)
+  await db(TABLES.auditEvents).insert(row)
+  outermost(db as Knex.Transaction).executionPromise?.then(announceCommitted, () => {})
+}
+
+type AuditRow = ReturnType<typeof auditRow>
+
+function auditRow(entry: AuditEntry) {
+  return {
     at: new Date(),
     user_id: entry.userId,
     action: entry.action,
@@ -57,10 +67,33 @@ export async function insertAuditEvent(db: Db, entry: AuditEntry): Promise<void>
     entity_id: entry.entityId === null ? null : String(entry.entityId),
     summary: wellFormed(entry.summary.slice(0, 500)),
     ip: entry.ip ?? null,
-  })
-  if (!db.isTransaction) announceCommitted()
-  else outermost(db as Knex.Transaction).executionPromise?.then(announceCommitted, () => {})
+  }
 }
+
+/**
+ * Events outside a transaction (the reads audited on arrival, most of all) are written together
+ * with the others of the same turn, in one multi-row insert that each of their requests awaits:
+ * an event is stored before its request goes on, as it was alone. Should that insert fail, each
+ * event is tried alone, so one bad row fails only its own request.
+ */
+const auditInserts = batcherPerPool((db) =>
+  batchPerTurn<AuditRow, void>(async (rows) => {
+    try {
+      await db(TABLES.auditEvents).insert([...rows])
+      announceCommitted()
+      return rows.map(() => undefined)
+    } catch {
+      const alone = await Promise.allSettled(rows.map((row) => db(TABLES.auditEvents).insert(row)))
+      if (alone.some((result) => result.status === 'fulfilled')) announceCommitted()
+      return alone.map((result) =>
+        result.status === 'fulfilled' ? undefined : toError(result.reason),
+      )
+    }
+  }),
+)
+
+const toError = (reason: unknown): Error =>
+  reason instanceof Error ? reason : new Error(String(reason))
 
 export interface AuditEventRecord {
   id: number

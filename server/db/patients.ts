@@ -172,9 +172,15 @@ export async function searchPatients(
     .limit(search.limit)
     .as('page')
   const matching = query.clone().count({ total: '*' })
+  // The whole list reads the total the triggers keep (migration 20261220090000) rather than
+  // counting every patient; a filtered list counts its matches.
+  const whole = search.researcherId === undefined && search.studyId === undefined && !q
+  const totalOfMatches = whole
+    ? db(TABLES.patientTotal).where({ id: 1 }).select('total')
+    : matching.clone()
   const rows = (await order(
     withPatientDetails(db, db.from(page).join(`${TABLES.patients} as p`, 'p.id', 'page.id')).select(
-      matching.clone().as('total_matching'),
+      totalOfMatches.as('total_matching'),
     ),
   )) as Array<PatientRow & { total_matching: number | string }>
   const items = rows.map(toPatient)

@@ -3,6 +3,8 @@ export const TABLES = {
   users: 'users',
   invitations: 'invitations',
   patients: 'patients',
+  /** One row: how many patients there are, kept by triggers on patients. */
+  patientTotal: 'patient_total',
   visits: 'visits',
   planSegments: 'plan_segments',
   images: 'images',
@@ -58,6 +60,7 @@ export const TABLES_CHILDREN_FIRST = [
   TABLES.planSegments,
   TABLES.visits,
   TABLES.patients,
+  TABLES.patientTotal,
   TABLES.invitations,
   TABLES.siteSettings,
   TABLES.users,

@@ -2,6 +2,7 @@ import type { Db } from './knex'
 import { TABLES } from './tables'
 import { clearSignInFailures, signInAccountKey } from './sign-in-throttle'
 import { toBoolean, toIsoDateTime, toIsoDateTimeOrNull } from './rows'
+import { batcherPerPool, batchPerTurn } from './turn-batch'
 import type { Role } from '../../shared/types/domain'
 
 export interface UserRecord {
@@ -59,28 +60,63 @@ function toUser(row: UserRow): UserRecord {
   }
 }
 
+export interface SessionAccount {
+  user: UserRecord
+  sessionRevoked: boolean
+}
+
+interface SessionKey {
+  userId: number
+  sessionId: string
+}
+
 /**
- * The account a session token names, and whether that session was signed out, in one statement:
- * every authenticated request asks both, and one round trip fewer per request is most of the
- * gain under load.
+ * The accounts that session tokens name, and whether each session was signed out, in one
+ * statement for every session checked in the same turn: every authenticated request asks, and
+ * under load the requests of a turn (often one user's page asking several things at once) then
+ * share one round trip. Each answer is read after its request arrived.
  */
+async function findSessionAccounts(
+  db: Db,
+  keys: readonly SessionKey[],
+): Promise<Array<SessionAccount | undefined>> {
+  const distinct = [...new Map(keys.map((key) => [`${key.userId} ${key.sessionId}`, key])).values()]
+  const asked = distinct
+    .map(() => 'SELECT ? AS n, ? AS user_id, ? AS session_id')
+    .join(' UNION ALL ')
+  const [rows] = (await db.raw(
+    `SELECT k.n, ${COLUMNS.map((column) => `u.${column}`).join(', ')},
+       EXISTS (SELECT 1 FROM ?? r WHERE r.session_id = k.session_id) AS session_revoked
+     FROM (${asked}) AS k JOIN ?? u ON u.id = k.user_id`,
+    [
+      TABLES.revokedSessions,
+      ...distinct.flatMap((key, n) => [n, key.userId, key.sessionId]),
+      TABLES.users,
+    ],
+  )) as [Array<UserRow & { n: number; session_revoked: number }>]
+  const found = new Map<string, SessionAccount>()
+  for (const row of rows) {
+    const key = distinct[Number(row.n)] as SessionKey
+    found.set(`${key.userId} ${key.sessionId}`, {
+      user: toUser(row),
+      sessionRevoked: toBoolean(row.session_revoked),
+    })
+  }
+  return keys.map((key) => found.get(`${key.userId} ${key.sessionId}`))
+}
+
+const sessionChecks = batcherPerPool((db) =>
+  batchPerTurn<SessionKey, SessionAccount | undefined>((keys) => findSessionAccounts(db, keys)),
+)
+
+/** The account a session token names, and whether that session was signed out. */
 export async function findSessionAccount(
   db: Db,
   userId: number,
   sessionId: string,
-): Promise<{ user: UserRecord; sessionRevoked: boolean } | undefined> {
+): Promise<SessionAccount | undefined> {
   if (!Number.isSafeInteger(userId)) return undefined
-  const row = (await db(TABLES.users)
-    .select(COLUMNS)
-    .select(
-      db.raw(`EXISTS (SELECT 1 FROM ?? WHERE session_id = ?) AS session_revoked`, [
-        TABLES.revokedSessions,
-        sessionId,
-      ]),
-    )
-    .where({ id: userId })
-    .first()) as (UserRow & { session_revoked: number }) | undefined
-  return row ? { user: toUser(row), sessionRevoked: toBoolean(row.session_revoked) } : undefined
+  return sessionChecks(db).load({ userId, sessionId })
 }
 
 export async function findUserById(db: Db, id: number): Promise<UserRecord | undefined> {
