@@ -2,7 +2,7 @@ import type { LandmarkDocument } from '../types/landmarks'
 import type { MeasurementResult, SegmentMeasurement, SegmentName } from '../types/measurement'
 import { piLlBandFromMismatchDeg, targetLordosisDeg } from './alignment'
 import { hipAxis } from './femoral-head'
-import { measureFrontal, type FrontalAngleMode } from './frontal'
+import { measureFrontal, measureFrontalSegment, type FrontalAngleMode } from './frontal'
 import { SEGMENTS } from './landmark-names'
 import { lordosisToSacrumDeg } from './lordosis'
 import { parseLandmarkDocument } from './parse-landmark-document'
@@ -11,21 +11,13 @@ import { prepareDocument, type PreparedPoints } from './prepared-points'
 import { measureSegment } from './segment-measures'
 
 /**
- * Every measure of already prepared points, with no validation: the inner step that
- * `computeMeasurements` and the uncertainty propagation share. `frontalAngles: 'signed'` gives
- * the frontal coronal angles with their sign, for differentiation only (see `FrontalAngleMode`).
+ * The measures that belong to no single segment: lordosis to the sacrum, the pelvic parameters
+ * and what follows from them, and the calibration.
  */
-export function measurePrepared(
+export function measureWholeSpine(
   prepared: PreparedPoints,
-  frontalAngles: FrontalAngleMode = 'unsigned',
-): MeasurementResult {
+): Omit<MeasurementResult, 'segments' | 'frontal'> {
   const { work, spacing } = prepared
-  // Only computable segments get a key, so a reader never mistakes an empty one for a result.
-  const segments: Partial<Record<SegmentName, SegmentMeasurement>> = {}
-  for (const spec of SEGMENTS) {
-    const segment = measureSegment(spec, prepared)
-    if (segment !== null) segments[spec.name] = segment
-  }
   const lumbarLordosisDeg = lordosisToSacrumDeg(work, 'L1')
   const sacrumPs = work['S1.ps']
   const sacrumAs = work['S1.as']
@@ -37,7 +29,6 @@ export function measurePrepared(
   const piLlMismatchDeg =
     incidence === null || lumbarLordosisDeg === null ? null : incidence - lumbarLordosisDeg
   return {
-    segments,
     lumbarLordosisDeg,
     distalLordosisDeg: lordosisToSacrumDeg(work, 'L4'),
     pelvis,
@@ -52,8 +43,56 @@ export function measurePrepared(
             columnMm: spacing.columnMm,
             square: spacing.rowMm === spacing.columnMm,
           },
+  }
+}
+
+/**
+ * Every measure of already prepared points, with no validation: the inner step that
+ * `computeMeasurements` and the uncertainty propagation share. `frontalAngles: 'signed'` gives
+ * the frontal coronal angles with their sign, for differentiation only (see `FrontalAngleMode`).
+ */
+export function measurePrepared(
+  prepared: PreparedPoints,
+  frontalAngles: FrontalAngleMode = 'unsigned',
+): MeasurementResult {
+  // Only computable segments get a key, so a reader never mistakes an empty one for a result.
+  const segments: Partial<Record<SegmentName, SegmentMeasurement>> = {}
+  for (const spec of SEGMENTS) {
+    const segment = measureSegment(spec, prepared)
+    if (segment !== null) segments[spec.name] = segment
+  }
+  return {
+    segments,
+    ...measureWholeSpine(prepared),
     frontal: measureFrontal(prepared, frontalAngles),
   }
+}
+
+/** One piece of `measurePrepared`'s result that is computed on its own: `at` is where it sits. */
+export interface MeasurementPart {
+  readonly at: readonly string[]
+  readonly measure: (prepared: PreparedPoints) => object | null
+}
+
+/**
+ * `measurePrepared` as the pieces it is made of: each segment's lateral measures, the
+ * whole-spine measures (`at` empty: every key outside `segments` and `frontal`) and each
+ * segment's frontal measures. Each piece reads a few landmarks only, which lets the uncertainty
+ * propagation move each landmark in the pieces that read it rather than in the whole result.
+ */
+export function measurementParts(frontalAngles: FrontalAngleMode): MeasurementPart[] {
+  return [
+    ...SEGMENTS.map((spec) => ({
+      at: ['segments', spec.name],
+      measure: (prepared: PreparedPoints) => measureSegment(spec, prepared),
+    })),
+    { at: [], measure: measureWholeSpine },
+    ...SEGMENTS.map((spec) => ({
+      at: ['frontal', spec.name],
+      measure: (prepared: PreparedPoints) =>
+        measureFrontalSegment(spec.name, spec.upper, spec.lower, prepared, frontalAngles),
+    })),
+  ]
 }
 
 /**
