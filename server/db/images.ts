@@ -103,6 +103,15 @@ export function whereHeldBack(query: Knex.QueryBuilder, alias: string): Knex.Que
     .whereNull(`${alias}.pixels_cleared_at`)
 }
 
+/** Limits an image query (alias `alias`) to the films released to researchers: not held back. */
+export function whereReleased(query: Knex.QueryBuilder, alias: string): Knex.QueryBuilder {
+  return query.where((released) =>
+    released
+      .where(`${alias}.burned_in_annotation`, 'no')
+      .orWhereNotNull(`${alias}.pixels_cleared_at`),
+  )
+}
+
 /** How many films of each visit are held back from researchers (visits without any are absent). */
 export async function countHeldBackFilmsByVisit(
   db: Db,

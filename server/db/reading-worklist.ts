@@ -2,6 +2,7 @@ import type { Db } from './knex'
 import { TABLES } from './tables'
 import { parseJson, toIsoDate, toIsoDateTimeOrNull } from './rows'
 import { SUPERSEDED_BY } from './readings'
+import { whereReleased } from './images'
 import type { ReadingStatus, ReadingTemplate, VisitKind } from '../../shared/types/domain'
 import type { ReadingSortField, ReadingSummary } from '../../shared/types/readings'
 import type { TemplateOptions } from '../../shared/readings/templates'
@@ -109,6 +110,8 @@ export async function listReadingRecords(
         .where('sm.user_id', filter.researcherId)
         .select('sp.patient_id'),
     )
+    // A researcher opens no reading of a film held back for its pixels, so none is listed.
+    whereReleased(query, 'i')
   }
   const [{ total }] = (await query.clone().count({ total: '*' })) as [{ total: number | string }]
   const rows = (await query

@@ -368,6 +368,19 @@ describe('GET /api/readings', () => {
     expect(JSON.stringify(res.body)).not.toMatch(/Quillfeather|Odalys|2026-03-02/)
     expect((await as(users.admin).get('/api/readings')).status).toBe(403)
   })
+
+  it('leaves out readings of films held back for their pixels, which a researcher cannot open', async () => {
+    const released = await reading()
+    imageId = await insertTestFilm(db, visitId, users.fellow.id, 'unknown')
+    const heldBack = await reading()
+    const listed = await as(users.researcher).get('/api/readings')
+    expect(listed.body).toMatchObject({ total: 1, items: [{ id: released.id }] })
+    expect((await as(users.researcher).get(`/api/readings/${heldBack.id}`)).status).toBe(404)
+    // Clinicians list both; once a clinician clears the film, so does the researcher.
+    expect((await as(users.surgeon).get('/api/readings')).body.total).toBe(2)
+    await db(TABLES.images).where({ id: imageId }).update({ pixels_cleared_at: new Date() })
+    expect((await as(users.researcher).get('/api/readings')).body.total).toBe(2)
+  })
 })
 
 describe('/api/readings/:id/comments', () => {
