@@ -3,7 +3,8 @@ import type { Db } from './knex'
 import { TABLES } from './tables'
 import { fromResultsColumn } from './reading-results-columns'
 import { parseJson, toIsoDateTime, toIsoDateTimeOrNull } from './rows'
-import type { Role } from '../../shared/types/domain'
+import { IMAGE_VIEWS, type ImageView, type Role, type VisitKind } from '../../shared/types/domain'
+import type { RoundFilmCandidate } from '../../shared/types/round-films'
 import type {
   RoundKind,
   RoundOptions,
@@ -291,6 +292,52 @@ export async function studyFilms(
     .whereIn('i.id', imageIds)
     .select('i.id', 'i.view')
   return new Map(rows.map((row) => [row.id as number, row.view as string]))
+}
+
+/**
+ * The lateral films of a study's patients, by study code, then visit in time order, then film:
+ * what a new round may include, in one statement.
+ */
+export async function listStudyLateralFilms(
+  db: Db,
+  studyId: number,
+): Promise<RoundFilmCandidate[]> {
+  // Each visit's place among all of its patient's visits (same-day visits in the order entered),
+  // as the patient's page numbers them.
+  const numberedVisits = db(`${TABLES.visits} as nv`)
+    .select(
+      'nv.id',
+      'nv.patient_id',
+      'nv.kind',
+      db.raw('ROW_NUMBER() OVER (PARTITION BY nv.patient_id ORDER BY nv.visit_date, nv.id) AS seq'),
+    )
+    .whereIn(
+      'nv.patient_id',
+      db(TABLES.studyPatients).where('study_id', studyId).select('patient_id'),
+    )
+    .as('v')
+  const rows = (await db(`${TABLES.images} as i`)
+    .join(numberedVisits, 'v.id', 'i.visit_id')
+    .join(`${TABLES.patients} as p`, 'p.id', 'v.patient_id')
+    .whereIn(
+      'i.view',
+      IMAGE_VIEWS.filter((view) => view.startsWith('lateral')),
+    )
+    .orderBy([{ column: 'p.study_code' }, { column: 'v.seq' }, { column: 'i.id' }])
+    .select('i.id', 'i.view', 'p.study_code', 'v.kind', 'v.seq')) as Array<{
+    id: number
+    view: ImageView
+    study_code: string
+    kind: VisitKind
+    seq: number | string
+  }>
+  return rows.map((row) => ({
+    imageId: row.id,
+    studyCode: row.study_code,
+    visitKind: row.kind,
+    visitSequence: Number(row.seq),
+    view: row.view,
+  }))
 }
 
 /** Active accounts among `ids` with their role. */

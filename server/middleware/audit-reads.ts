@@ -8,6 +8,7 @@ import { insertAuditEvent } from '../db/audit'
  */
 const AUDITED_READS: Array<[pattern: RegExp, entity: string]> = [
   [/^\/visits\/(\d+)\/images$/, 'visit'],
+  [/^\/studies\/(\d+)\/round-film-candidates$/, 'study'],
   [/^\/images\/(\d+)\/files\/[a-z-]+$/, 'image'],
   [/^\/images\/(\d+)\/readings$/, 'image'],
   [/^\/readings\/(\d+)$/, 'reading'],

@@ -13,7 +13,13 @@ import {
   patchRoundBody,
   roundListQuery,
 } from '../schemas/rounds'
-import { createRound, getRound, listRounds, patchRound } from '../services/rounds'
+import {
+  createRound,
+  getRound,
+  listRoundFilmCandidates,
+  listRounds,
+  patchRound,
+} from '../services/rounds'
 import {
   assignmentFilm,
   listAssignments,
@@ -36,6 +42,15 @@ export function roundsRouter(db: Db, deps: { store: FileStore; now: Clock }): Ro
     validate('body', createRoundBody),
     async (req, res) => {
       res.status(201).json(await createRound(db, actorOf(req), res.locals.params.id, req.body))
+    },
+  )
+
+  router.get(
+    '/studies/:id/round-film-candidates',
+    requirePermission('round:manage'),
+    validate('params', idParam),
+    async (req, res) => {
+      res.json(await listRoundFilmCandidates(db, actorOf(req), res.locals.params.id))
     },
   )
 

@@ -8,12 +8,14 @@ import {
   listRoundAssignments,
   listRoundImageCodes,
   listRoundRaters,
+  listStudyLateralFilms,
   listStudyRounds,
   studyFilms,
   updateRoundStatus,
   type RoundRecord,
 } from '../db/rounds'
 import { badRequest, conflict, notFound } from '../errors'
+import type { RoundFilmCandidate } from '../../shared/types/round-films'
 import type { Page } from '../../shared/types/api'
 import type {
   CreateRoundInput,
@@ -32,6 +34,17 @@ export const DEFAULT_INTRA_REPEATS = 2
 async function loadStudyFor(db: Db, actor: Actor, studyId: number): Promise<void> {
   const memberId = actor.user.role === 'researcher' ? actor.user.id : undefined
   if (!(await findStudy(db, studyId, memberId))) throw notFound('study')
+}
+
+/** The lateral films of a study's patients that a new round may include. */
+export async function listRoundFilmCandidates(
+  db: Db,
+  actor: Actor,
+  studyId: number,
+): Promise<Page<RoundFilmCandidate>> {
+  await loadStudyFor(db, actor, studyId)
+  const items = await listStudyLateralFilms(db, studyId)
+  return { items, total: items.length }
 }
 
 /** A round the actor may see: its study must be visible to them. */

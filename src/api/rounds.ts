@@ -6,6 +6,7 @@ import type {
   RoundResults,
   RoundSummary,
 } from '@shared/types/rounds'
+import type { RoundFilmCandidate } from '@shared/types/round-films'
 import type { RoundRaterCandidate } from '@shared/types/round-raters'
 import { http, queryString } from './http'
 
@@ -20,3 +21,5 @@ export const getRoundResults = (id: number) => http.get<RoundResults>(`/rounds/$
 export const roundResultsCsvPath = (id: number) => `/rounds/${id}/results.csv`
 export const listRaterCandidates = () =>
   http.get<Page<RoundRaterCandidate>>('/rounds/rater-candidates')
+export const listRoundFilmCandidates = (studyId: number) =>
+  http.get<Page<RoundFilmCandidate>>(`/studies/${studyId}/round-film-candidates`)

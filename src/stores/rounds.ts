@@ -8,30 +8,16 @@ import type {
   RoundSummary,
 } from '@shared/types/rounds'
 import type { RoundRaterCandidate } from '@shared/types/round-raters'
-import type { ImageView, VisitKind } from '@shared/types/domain'
+import type { RoundFilmCandidate } from '@shared/types/round-films'
 import {
   createRound,
   getRound,
   getRoundResults,
   listRaterCandidates,
+  listRoundFilmCandidates,
   listStudyRounds,
   patchRound,
 } from '@/api/rounds'
-import { listStudyPatients } from '@/api/studies'
-import { listVisits } from '@/api/visits'
-import { listVisitImages } from '@/api/images'
-
-/** A film a new round may include: a lateral film of one of the study's patients. */
-export interface RoundFilmCandidate {
-  imageId: number
-  studyCode: string
-  visitKind: VisitKind
-  visitSequence: number
-  view: ImageView
-}
-
-/** The largest page the patient list answers; a study larger than this is paged through. */
-const PATIENT_PAGE = 100
 
 /** Re-reading rounds: a study's list, the open round's progress and its reliability results. */
 export const useRoundsStore = defineStore('rounds', () => {
@@ -101,32 +87,7 @@ export const useRoundsStore = defineStore('rounds', () => {
 
   /** Lateral films of the study's patients, in study-code and visit order. */
   async function filmCandidates(id: number): Promise<RoundFilmCandidate[]> {
-    const patients = []
-    for (let offset = 0; ; offset += PATIENT_PAGE) {
-      const page = await listStudyPatients(id, { offset, limit: PATIENT_PAGE })
-      patients.push(...page.items)
-      if (patients.length >= page.total || page.items.length === 0) break
-    }
-    const perPatient = await Promise.all(
-      patients.map(async (patient) => {
-        const visits = await listVisits(patient.id)
-        const perVisit = await Promise.all(
-          visits.map(async (visit, index) =>
-            (await listVisitImages(visit.id))
-              .filter((image) => image.view.startsWith('lateral'))
-              .map((image) => ({
-                imageId: image.id,
-                studyCode: patient.studyCode,
-                visitKind: visit.visitKind,
-                visitSequence: index + 1,
-                view: image.view,
-              })),
-          ),
-        )
-        return perVisit.flat()
-      }),
-    )
-    return perPatient.flat()
+    return (await listRoundFilmCandidates(id)).items
   }
 
   /** Rounds of several studies at once (a researcher's first screen), by study id. */

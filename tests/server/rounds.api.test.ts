@@ -140,6 +140,64 @@ async function readAssignment(user: TestUser, assignmentId: number, shiftPx: num
   return { readingId, started, saved, submitted }
 }
 
+describe('GET /api/studies/:id/round-film-candidates', () => {
+  it("lists the lateral films of the study's patients in one answer, visits numbered in time order", async () => {
+    const [patientId] = (await db(TABLES.studyPatients).where({ study_id: studyId })).map(
+      (row) => row.patient_id as number,
+    )
+    // A later visit entered first, and a frontal film: numbered by date, and left out.
+    const followUp = await insertTestVisit(
+      db,
+      patientId!,
+      users.surgeon.id,
+      '2026-09-14',
+      'follow-up',
+    )
+    const followUpFilm = await insertTestFilm(db, followUp, users.fellow.id)
+    const frontal = await insertTestFilm(db, followUp, users.fellow.id)
+    await db(TABLES.images).where({ id: frontal }).update({ view: 'ap' })
+    const [studyCode] = await db(TABLES.patients).where({ id: patientId }).pluck('study_code')
+
+    const res = await as(users.surgeon).get(`/api/studies/${studyId}/round-film-candidates`)
+    expect(res.status).toBe(200)
+    expect(res.body).toEqual({
+      total: 4,
+      items: [
+        ...filmIds.map((imageId) => ({
+          imageId,
+          studyCode,
+          visitKind: 'pre-op',
+          visitSequence: 1,
+          view: 'lateral-neutral',
+        })),
+        {
+          imageId: followUpFilm,
+          studyCode,
+          visitKind: 'follow-up',
+          visitSequence: 2,
+          view: 'lateral-neutral',
+        },
+      ],
+    })
+    expect(res.body.items.map((item: { imageId: number }) => item.imageId)).not.toContain(
+      outsideFilmId,
+    )
+    const events = await db(TABLES.auditEvents).where({ entity: 'study', action: 'view' })
+    expect(events.map((event) => event.entity_id)).toEqual([String(studyId)])
+  })
+
+  it('is for those who start rounds, and a study that is not there is 404', async () => {
+    for (const user of [users.fellow, users.researcher])
+      expect((await as(user).get(`/api/studies/${studyId}/round-film-candidates`)).status).toBe(403)
+    expect(
+      (await as(users.admin).get(`/api/studies/${studyId}/round-film-candidates`)).status,
+    ).toBe(200)
+    expect((await as(users.surgeon).get('/api/studies/999999/round-film-candidates')).status).toBe(
+      404,
+    )
+  })
+})
+
 describe('POST /api/studies/:id/rounds', () => {
   it('gives every rater a blinded assignment for every film, audited', async () => {
     const res = await as(users.surgeon).post(`/api/studies/${studyId}/rounds`, interRound())

@@ -202,6 +202,7 @@ export const INPUT_CASES: Record<string, InputCase> = {
       raterIds: [w.users.fellow.id, w.users.surgeon.id],
     }),
   },
+  'GET /api/studies/:id/round-film-candidates': { params: (w) => id(w.studyId) },
   'GET /api/studies/:id/rounds': { params: (w) => id(w.studyId), query: () => ({ limit: '10' }) },
   'GET /api/rounds/:id': { params: (w) => id(w.roundId) },
   'PATCH /api/rounds/:id': {
