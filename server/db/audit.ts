@@ -73,8 +73,8 @@ function auditRow(entry: AuditEntry) {
 /**
  * Events outside a transaction (the reads audited on arrival, most of all) are written together
  * with the others of the same turn, in one multi-row insert that each of their requests awaits:
- * an event is stored before its request goes on, as it was alone. Should that insert fail, each
- * event is tried alone, so one bad row fails only its own request.
+ * an event is stored before its request goes on, as it was alone. Should that insert refuse a
+ * row, each event is tried alone, so one bad row fails only its own request.
  */
 const auditInserts = batcherPerPool((db) =>
   batchPerTurn<AuditRow, void>(async (rows) => {
@@ -82,7 +82,9 @@ const auditInserts = batcherPerPool((db) =>
       await db(TABLES.auditEvents).insert([...rows])
       announceCommitted()
       return rows.map(() => undefined)
-    } catch {
+    } catch (error) {
+      // A database that does not answer fails every event alike: no second round of waiting.
+      if (!isRowError(error)) throw error
       const alone = await Promise.allSettled(rows.map((row) => db(TABLES.auditEvents).insert(row)))
       if (alone.some((result) => result.status === 'fulfilled')) announceCommitted()
       return alone.map((result) =>
@@ -91,6 +93,12 @@ const auditInserts = batcherPerPool((db) =>
     }
   }),
 )
+
+/** SQLSTATE class 22 (data exception) or 23 (integrity constraint): a row's fault, not the link's. */
+function isRowError(error: unknown): boolean {
+  const state = (error as { sqlState?: unknown } | null)?.sqlState
+  return typeof state === 'string' && (state.startsWith('22') || state.startsWith('23'))
+}
 
 const toError = (reason: unknown): Error =>
   reason instanceof Error ? reason : new Error(String(reason))
