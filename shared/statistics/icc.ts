@@ -75,7 +75,10 @@ export interface IccOptions {
  * Point estimates: Shrout & Fleiss (1979) Table 1 [V]. F tests and confidence intervals: Shrout
  * & Fleiss (1979) and McGraw & Wong (1996) Tables 7–8 [V]; for ICC(2,1) the Satterthwaite
  * degrees of freedom of Fleiss & Shrout (1978), and ICC(2,k) bounds by Spearman–Brown from
- * those of ICC(2,1), as R's psych::ICC computes them (the golden fixtures check this).
+ * those of ICC(2,1), as R's psych::ICC computes them (the golden fixtures check this). Where
+ * the targets differ less than one target's ratings do, ICC(2,k) past the Spearman–Brown pole
+ * and an ICC(2,·) interval the approximation cannot give are NaN ("not defined"), where psych
+ * prints the formulas' values (an ICC above 1, bounds beside their estimate).
  */
 export function intraclassCorrelations(
   table: RatingTable,
@@ -135,6 +138,22 @@ function spearmanBrown(single: number, k: number): number {
   return (k * single) / denominator
 }
 
+/**
+ * The Satterthwaite interval of ICC(2,1), or NaN for both bounds ("not defined") where the
+ * approximation fails: with targets that barely differ (F well below 1) its degrees of freedom
+ * v shrink towards 0, the F quantiles run off towards 1e300, and a bound lands on the wrong side
+ * of its own estimate. A researcher then sees no interval rather than a wrong one.
+ */
+function intervalOrUndefined(lower: number, estimate: number, upper: number): [number, number] {
+  const defined =
+    Number.isFinite(lower) &&
+    Number.isFinite(upper) &&
+    lower <= estimate &&
+    estimate <= upper &&
+    upper <= 1
+  return defined ? [lower, upper] : [Number.NaN, Number.NaN]
+}
+
 /** The six forms from the mean squares; `alpha` is 1 − the confidence level. */
 export function iccFormsFromMeanSquares(
   ms: MeanSquares,
@@ -166,7 +185,12 @@ export function iccFormsFromMeanSquares(
   const icc21 = (bms - ems) / (bms + (k - 1) * ems + (k * (jms - ems)) / n)
   const icc31 = (bms - ems) / (bms + (k - 1) * ems)
   const icc1k = (bms - wms) / bms
-  const icc2k = (bms - ems) / (bms + (jms - ems) / n)
+  // When the targets differ less than the ratings of one target do, the single-rater estimate
+  // can fall to or below −1/(k − 1), the pole of the Spearman–Brown step-up; this denominator
+  // then turns non-positive and the formula would answer a "reliability" above 1. The
+  // average-rater form is not defined there (the single-rater one still is).
+  const denominator2k = bms + (jms - ems) / n
+  const icc2k = denominator2k > 0 ? (bms - ems) / denominator2k : Number.NaN
   const icc3k = (bms - ems) / bms
 
   // ICC(2,1): approximate F with Satterthwaite's degrees of freedom v (Fleiss & Shrout 1978;
@@ -183,8 +207,24 @@ export function iccFormsFromMeanSquares(
   const fStarUpper = fQuantile(upperQ, n - 1, v)
   const fStarLower = fQuantile(upperQ, v, n - 1)
   const spread = k * jms + (k * n - k - n) * ems
-  const lower21 = (n * (bms - fStarUpper * ems)) / (fStarUpper * spread + n * bms)
-  const upper21 = (n * (fStarLower * bms - ems)) / (spread + n * fStarLower * bms)
+  // The bounds n(BMS − F*·EMS) / (F*·spread + n·BMS) and n(F*·BMS − EMS) / (spread + n·F*·BMS),
+  // written in ratios to EMS (and the lower one divided through by F*), so that they do not
+  // depend on the unit and do not overflow when a tiny v sends F* towards 1e300.
+  let lower21Raw: number
+  let upper21Raw: number
+  if (ems === 0) {
+    lower21Raw = (n * bms) / (fStarUpper * spread + n * bms)
+    upper21Raw = (n * fStarLower * bms) / (spread + n * fStarLower * bms)
+  } else {
+    const targetsToResidual = bms / ems
+    const spreadToResidual = spread / ems
+    const scaledTargets = targetsToResidual / fStarUpper
+    lower21Raw = (n * (scaledTargets - 1)) / (spreadToResidual + n * scaledTargets)
+    upper21Raw =
+      (n * (fStarLower * targetsToResidual - 1)) /
+      (spreadToResidual + n * fStarLower * targetsToResidual)
+  }
+  const [lower21, upper21] = intervalOrUndefined(lower21Raw, icc21, upper21Raw)
 
   const oneWay = { f: f1, df1, df2: dfWithin, p: p1 }
   const twoWay = { f: f3, df1, df2: dfResidual, p: p3 }
@@ -205,8 +245,9 @@ export function iccFormsFromMeanSquares(
     '1,k': { icc: icc1k, lower: averageFromF(f1Lower), upper: averageFromF(f1Upper), ...oneWay },
     '2,k': {
       icc: icc2k,
-      lower: spearmanBrown(lower21, k),
-      upper: spearmanBrown(upper21, k),
+      // No interval around an estimate that is not defined.
+      lower: Number.isNaN(icc2k) ? Number.NaN : spearmanBrown(lower21, k),
+      upper: Number.isNaN(icc2k) ? Number.NaN : spearmanBrown(upper21, k),
       ...twoWay,
     },
     '3,k': { icc: icc3k, lower: averageFromF(f3Lower), upper: averageFromF(f3Upper), ...twoWay },

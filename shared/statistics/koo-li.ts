@@ -6,8 +6,12 @@
  */
 export type KooLiBand = 'poor' | 'moderate' | 'good' | 'excellent'
 
-/** The band of one ICC value (dimensionless). */
-export function kooLiBand(icc: number): KooLiBand {
+/**
+ * The band of one ICC value (dimensionless), or null for a value that is not defined (NaN: an
+ * interval the approximation cannot give), which belongs to no band.
+ */
+export function kooLiBand(icc: number): KooLiBand | null {
+  if (Number.isNaN(icc)) return null
   if (icc < 0.5) return 'poor'
   if (icc < 0.75) return 'moderate'
   if (icc <= 0.9) return 'good'
@@ -15,12 +19,15 @@ export function kooLiBand(icc: number): KooLiBand {
 }
 
 export interface KooLiInterpretation {
-  /** Band of the point estimate. */
-  estimate: KooLiBand
-  /** Bands of the confidence bounds: Koo & Li ask for the interpretation to rest on the interval. */
-  lower: KooLiBand
-  upper: KooLiBand
-  /** "good", or "moderate to excellent" when the interval spans bands. */
+  /** Band of the point estimate (null when it is not defined). */
+  estimate: KooLiBand | null
+  /**
+   * Bands of the confidence bounds: Koo & Li ask for the interpretation to rest on the interval
+   * (null when the interval is not defined).
+   */
+  lower: KooLiBand | null
+  upper: KooLiBand | null
+  /** "good", "moderate to excellent" when the interval spans bands, or "not defined". */
   summary: string
 }
 
@@ -36,6 +43,11 @@ export function kooLiInterpretation(estimate: {
     estimate: kooLiBand(estimate.icc),
     lower,
     upper,
-    summary: lower === upper ? lower : `${lower} to ${upper}`,
+    summary:
+      lower === null || upper === null
+        ? 'not defined'
+        : lower === upper
+          ? lower
+          : `${lower} to ${upper}`,
   }
 }

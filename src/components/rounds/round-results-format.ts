@@ -21,13 +21,20 @@ export function formatStatistic(value: number | null | undefined, digits = 2): s
   return numberText(value, digits)
 }
 
-/** "0.71 (0.34 to 0.90)": an estimate with its 95 % confidence interval. */
+const notDefined = (value: number | null) => value === null || Number.isNaN(value)
+
+/**
+ * "0.71 (0.34 to 0.90)": an estimate with its 95 % confidence interval; "−0.29 (no interval)"
+ * when neither bound is defined (the server sends a bound that is not defined as null).
+ */
 export function formatWithInterval(
   estimate: number | null,
   lower: number | null,
   upper: number | null,
   digits = 2,
 ): string {
+  if (notDefined(lower) && notDefined(upper))
+    return `${formatStatistic(estimate, digits)} (no interval)`
   return `${formatStatistic(estimate, digits)} (${formatStatistic(lower, digits)} to ${formatStatistic(upper, digits)})`
 }
 

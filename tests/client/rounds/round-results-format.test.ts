@@ -29,6 +29,11 @@ describe('formatWithInterval', () => {
     expect(formatWithInterval(0.2898, 0.019, 0.7611)).toBe('0.29 (0.02 to 0.76)')
     expect(formatWithInterval(0.5, null, 0.9)).toBe('0.50 (— to 0.90)')
   })
+
+  it('says so when an estimate has no interval at all', () => {
+    // The ICC(2,1) interval is not defined when the films barely differ (see shared/statistics/icc.ts).
+    expect(formatWithInterval(-0.2899, null, null)).toBe('−0.29 (no interval)')
+  })
 })
 
 describe('formatPValue', () => {

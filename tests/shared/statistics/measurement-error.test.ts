@@ -44,4 +44,11 @@ describe('Koo & Li (2016) bands', () => {
     )
     expect(kooLiInterpretation({ icc: 0.8, lower: 0.77, upper: 0.85 }).summary).toBe('good')
   })
+
+  it('puts a value that is not defined in no band (never "excellent" by default)', () => {
+    expect(kooLiBand(Number.NaN)).toBeNull()
+    expect(kooLiInterpretation({ icc: -0.29, lower: Number.NaN, upper: Number.NaN }).summary).toBe(
+      'not defined',
+    )
+  })
 })

@@ -19,12 +19,20 @@ import {
 const tenths = (min: number, max: number) =>
   fc.integer({ min: min * 10, max: max * 10 }).map((x) => x / 10)
 
-/** Tables of 3–15 targets × 2–5 raters: a value per target plus rating noise. */
+/**
+ * Tables of 3–15 targets × 2–5 raters: a value per target plus rating noise of ±5. Targets
+ * spread over ±100 or, a quarter of the time, over ±1 only, so that tables whose targets differ
+ * less than one target's ratings (negative ICC estimates) are tried too.
+ */
 const ratingTable = fc
-  .tuple(fc.integer({ min: 3, max: 15 }), fc.integer({ min: 2, max: 5 }))
-  .chain(([n, k]) =>
+  .tuple(
+    fc.integer({ min: 3, max: 15 }),
+    fc.integer({ min: 2, max: 5 }),
+    fc.constantFrom(100, 100, 100, 1),
+  )
+  .chain(([n, k, spread]) =>
     fc.tuple(
-      fc.array(tenths(-100, 100), { minLength: n, maxLength: n }),
+      fc.array(tenths(-spread, spread), { minLength: n, maxLength: n }),
       fc.array(fc.array(tenths(-5, 5), { minLength: k, maxLength: k }), {
         minLength: n,
         maxLength: n,
@@ -38,8 +46,12 @@ function ok(table: number[][]): IccAnalysis | null {
   return result.status === 'ok' ? result : null
 }
 
-/** Equal to a relative 1e-7 (F grows without bound as the error vanishes), ±∞ alike. */
+/**
+ * Equal to a relative 1e-7 (F grows without bound as the error vanishes), ±∞ alike, and "not
+ * defined" (NaN) alike.
+ */
 function close(actual: number, expected: number): boolean {
+  if (Number.isNaN(expected)) return Number.isNaN(actual)
   if (!Number.isFinite(expected)) return actual === expected
   return Math.abs(actual - expected) <= 1e-7 * Math.max(1, Math.abs(expected))
 }
@@ -97,13 +109,15 @@ describe('ICC properties', () => {
         const result = ok(table)
         if (!result) return
         const { k } = result
-        for (const model of ['1', '2', '3'] as const) {
+        const steppedUp = (['1', '2', '3'] as const).map((model) => {
           const single = result.forms[`${model},1`].icc
-          expect(result.forms[`${model},k`].icc).toBeCloseTo(
-            (k * single) / (1 + (k - 1) * single),
-            8,
-          )
-        }
+          const denominator = 1 + (k - 1) * single
+          // At or below the step-up's pole −1/(k − 1) the mean of k raters has no reliability
+          // the formula could give (it would exceed 1): the module says "not defined" (NaN).
+          const expected = denominator <= 1e-9 ? Number.NaN : (k * single) / denominator
+          return { model, matches: close(result.forms[`${model},k`].icc, expected) }
+        })
+        expect(steppedUp.filter((form) => !form.matches)).toEqual([])
       }),
     )
   })
@@ -113,14 +127,53 @@ describe('ICC properties', () => {
       fc.property(ratingTable, (table) => {
         const result = ok(table)
         if (!result) return
-        for (const form of ICC_FORMS) {
-          const { icc, lower, upper } = result.forms[form]
-          expect(lower).toBeLessThanOrEqual(icc + 1e-12)
-          expect(upper).toBeGreaterThanOrEqual(icc - 1e-12)
-          expect(upper).toBeLessThanOrEqual(1 + 1e-12)
-        }
+        const slack = 1e-12
+        const faults = ICC_FORMS.flatMap((form) => {
+          const { icc, lower, upper, f } = result.forms[form]
+          const undefinedValues = [icc, lower, upper].some((value) => Number.isNaN(value))
+          // NaN compares false, so each check below holds only between defined values.
+          return [
+            // Only the Satterthwaite interval of the absolute-agreement forms can be undefined,
+            // and only where the targets differ less than one target's ratings (F below 1).
+            undefinedValues && !(form.startsWith('2,') && f < 1) && `${form} undefined at F ${f}`,
+            lower > icc + slack && `${form} lower above the estimate`,
+            upper < icc - slack && `${form} upper below the estimate`,
+            upper > 1 + slack && `${form} upper above 1`,
+          ].filter(Boolean)
+        })
+        expect(faults).toEqual([])
       }),
     )
+  })
+})
+
+describe('ICC where the targets barely differ', () => {
+  // A counterexample fast-check found: three targets whose ratings differ far more within a
+  // target than between targets (F = 0.0015). ICC(2,1) is then about −0.29, below the
+  // Spearman–Brown pole −1/(k − 1) = −0.25 for five raters.
+  const table = [
+    [0.6, 0.2, 0.6, 0.6, 0.6],
+    [2.3, 0.4, 0.4, 0.8, -1.1],
+    [-1.8, -0.3, 2.1, 2.6, 0],
+  ]
+
+  it('gives no ICC(2,k) above 1 and no Satterthwaite interval on the wrong side', () => {
+    const result = ok(table)!
+    expect(result.forms['2,1'].icc).toBeCloseTo(-0.2899, 4)
+    expect(result.forms['2,k'].icc).toBeNaN()
+    for (const key of ['lower', 'upper'] as const) {
+      expect(result.forms['2,1'][key]).toBeNaN()
+      expect(result.forms['2,k'][key]).toBeNaN()
+    }
+  })
+
+  it('keeps the exact F intervals of the other forms around their estimates', () => {
+    const result = ok(table)!
+    for (const form of ['1,1', '3,1', '1,k', '3,k'] as const) {
+      const { icc, lower, upper } = result.forms[form]
+      expect(lower).toBeLessThanOrEqual(icc)
+      expect(upper).toBeGreaterThanOrEqual(icc)
+    }
   })
 })
 
