@@ -6,7 +6,9 @@
 //   { "n", "k", "excluded", "forms": { "1,1": F, ... "3,k": F }, "blandAltman": {...} | null }
 //
 // each F being { "icc", "lower", "upper", "f", "df1", "df2", "p" } (f is null when the error mean
-// square is 0, i.e. an infinite F). A target with a missing rating is left out and counted in
+// square is 0, i.e. an infinite F; icc, lower and upper are null where not defined: ICC(2,k) past
+// the Spearman–Brown pole, or an ICC(2,·) interval when the targets differ less than one
+// target's ratings do). A target with a missing rating is left out and counted in
 // "excluded". Bad input, and data too few or without variance for an ICC, exit non-zero with
 // the message on stderr, so scripts can rely on the exit status.
 import { readFile } from 'node:fs/promises'

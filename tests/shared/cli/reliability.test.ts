@@ -50,6 +50,22 @@ describe('npm run reliability', () => {
   )
 
   it(
+    'prints null where an ICC or its interval is not defined (targets that barely differ)',
+    { timeout: 30_000 },
+    () => {
+      // Three targets whose ratings differ far more within a target than between targets
+      // (derived: F ≈ 0.0015, ICC(2,1) ≈ −0.29, below the Spearman–Brown pole −1/(k − 1) = −0.25).
+      const run = reliability(fixture('targets-barely-differ.json'))
+      expect(run.status).toBe(0)
+      const { forms } = JSON.parse(run.stdout)
+      expect(forms['2,1'].icc).toBeCloseTo(-0.2899, 4)
+      expect([forms['2,1'].lower, forms['2,1'].upper]).toEqual([null, null])
+      expect([forms['2,k'].icc, forms['2,k'].lower, forms['2,k'].upper]).toEqual([null, null, null])
+      expect(forms['3,1'].lower).toBeLessThanOrEqual(forms['3,1'].icc)
+    },
+  )
+
+  it(
     'adds Bland–Altman (first column minus second) for two raters and counts missing targets',
     { timeout: 30_000 },
     () => {
